@@ -1,0 +1,1 @@
+"""Assess: requirements to verdicts under a stated decision rule."""

@@ -1,0 +1,1 @@
+"""Colorimetry: pure numpy functions on arrays. Nothing here knows about YAML or HTML."""

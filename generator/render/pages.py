@@ -1,0 +1,123 @@
+"""Pages: Jinja2 with autoescape and StrictUndefined; contexts are built here, so that
+templates only lay out what they are given."""
+from __future__ import annotations
+
+import math
+from functools import lru_cache
+from pathlib import Path
+
+import jinja2
+import markdown as md
+
+from ..assess.rules import SYMBOL
+from ..colour.cct import METHOD as CCT_METHOD
+from ..data import ILLUMINANTS, OBSERVERS
+
+CAUTION_CATEGORIES = ("signal", "safety", "lighting")
+CAUTION = ("The figures on this page are an engineering check of the specification. For signal, "
+           "safety and lighting products the applicable regulations and standards, and testing by "
+           "an accredited laboratory, govern conformity; do not use this page as a certificate.")
+
+
+def templates_dir() -> Path:
+    here = Path(__file__).resolve().parent.parent
+    for cand in (here / "templates", here.parent / "templates"):
+        if (cand / "base.html").is_file():
+            return cand
+    raise FileNotFoundError("templates folder not found beside the generator package")
+
+
+@lru_cache(maxsize=1)
+def environment() -> jinja2.Environment:
+    env = jinja2.Environment(
+        loader=jinja2.FileSystemLoader(str(templates_dir())),
+        autoescape=True,
+        undefined=jinja2.StrictUndefined,
+        trim_blocks=True,
+        lstrip_blocks=True,
+        keep_trailing_newline=True,
+    )
+    return env
+
+
+def fmt(v, digits: int = 4) -> str:
+    """Fixed formatting for numbers on pages; '—' for missing values."""
+    if v is None or (isinstance(v, float) and not math.isfinite(v)):
+        return "—"
+    if isinstance(v, dict):
+        return ", ".join(f"{k} {fmt(x, digits)}" for k, x in v.items() if not isinstance(x, list))
+    if isinstance(v, (int, float)):
+        return f"{v:.{digits}f}"
+    return str(v)
+
+
+_DIGITS = {"cct": 0, "duv": 4, "delta_uv": 4, "box": 4, "ellipse": 2, "region": 4,
+           "luminance": 1, "coverage": 1, "area-ratio": 1}
+
+
+def limit_text(row) -> str:
+    lim, d = row["limit"], _DIGITS.get(row["quantity"], 4)
+    unit = f" {row['unit']}" if row["unit"] and row["unit"] != "%" else row["unit"]
+    if row["quantity"] == "box":
+        return f"|Δx| ≤ {lim['dx']:.4f}, |Δy| ≤ {lim['dy']:.4f}"
+    if row["quantity"] == "ellipse":
+        return f"inside a = {lim['a']:.4f}, b = {lim['b']:.4f}, θ = {lim['angle']:g}°"
+    if row["quantity"] == "region":
+        return f"inside a {len(lim['polygon'])}-corner xy region"
+    lo, hi = lim.get("min"), lim.get("max")
+    if lo is not None and hi is not None:
+        return f"{lo:.{d}f} to {hi:.{d}f}{unit}"
+    if lo is not None:
+        return f"≥ {lo:.{d}f}{unit}"
+    return f"≤ {hi:.{d}f}{unit}"
+
+
+def value_text(row) -> str:
+    d = _DIGITS.get(row["quantity"], 4)
+    v = row["value"]
+    unit = f" {row['unit']}" if row["unit"] and row["unit"] != "%" else row["unit"]
+    if isinstance(v, dict):
+        return f"Δx {v['dx']:+.4f}, Δy {v['dy']:+.4f}"
+    if v is None:
+        return "—"
+    return f"{v:.{d}f}{unit}"
+
+
+def row_view(row) -> dict:
+    return {"id": row["id"], "label": row["label"], "subject": row["subject"], "sample": row["sample"],
+            "limit": limit_text(row), "value": value_text(row), "verdict": row["verdict"],
+            "symbol": SYMBOL[row["verdict"]], "lot": row.get("lot", "")}
+
+
+_ALLOWED_TAGS = {"p", "em", "strong", "code", "pre", "ul", "ol", "li", "a", "blockquote", "h3", "h4",
+                 "table", "thead", "tbody", "tr", "th", "td", "br", "hr", "sub", "sup"}
+
+
+def render_markdown(text: str) -> str:
+    """Markdown notes to HTML, then sanitised (nh3): no script, no event handlers, no
+    javascript: links, only the tags above."""
+    import nh3
+
+    html = md.markdown(text, extensions=["tables"], output_format="html")
+    return nh3.clean(html, tags=_ALLOWED_TAGS, url_schemes={"http", "https", "mailto"},
+                     link_rel="noopener noreferrer")
+
+
+def methods(spec) -> list[tuple[str, str]]:
+    return [
+        ("Observer", OBSERVERS[spec.observer][1] + ", colour-matching functions at 1 nm, 360-830 nm "
+                     "(CIE 018:2019)"),
+        ("CCT and Duv", CCT_METHOD + "; Planck's law with c2 = 1.4388e-2 m·K; Duv in CIE 1960 uv, "
+                                     "positive above the locus"),
+        ("Chromaticity diagrams", "CIE 1931 xy and CIE 1976 u'v' (CIE 15:2004 §7-8)"),
+        ("Gamut", "convex hull of the primaries; coverage = reference area inside the gamut / reference "
+                  "area; area ratio = gamut area / reference area; both computed in the stated diagram"),
+        ("RGB to XYZ", "normalized primary matrix, SMPTE RP 177-1993, white Y = 1"),
+        ("Dominant wavelength", "CIE 15:2004 §9.1, relative to the spec's white target"),
+        ("Decision rule", "simple acceptance (ILAC-G8:09/2019 §4.2.1): limits inclusive"),
+    ]
+
+
+def illuminant_source(name: str) -> str:
+    ill = ILLUMINANTS.get(name)
+    return ill.source if ill else ""

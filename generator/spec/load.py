@@ -1,0 +1,164 @@
+"""Load every spec of a folder: parse, inherit, validate, resolve to typed Specs.
+
+All problems of all files are collected; ``load_specs`` raises InputError carrying
+every one of them, or returns the specs (and their warnings) when there are no errors.
+"""
+from __future__ import annotations
+
+import os
+from dataclasses import dataclass
+from pathlib import Path
+
+from .problems import InputError, Problems, did_you_mean
+from .schema import SPEC
+from .types import INVALID
+from .yamlnodes import Map, Mark, Node, Scalar, parse_yaml
+
+SPEC_SUFFIXES = (".yaml", ".yml")
+
+
+@dataclass
+class SourceSpec:
+    file: str         # as shown to people: relative to the working folder where possible
+    path: Path
+    node: Map
+    id: str
+
+
+def display_path(path: Path) -> str:
+    try:
+        rel = os.path.relpath(path)
+    except ValueError:
+        return str(path)
+    return rel if not rel.startswith("..") else str(path)
+
+
+def discover(specs: Path, problems: Problems) -> list[Path]:
+    """The spec files to read: a single file, or every *.yaml / *.yml below a folder."""
+    if specs.is_file():
+        return [specs]
+    if not specs.is_dir():
+        problems.error(Mark(str(specs), 1, 1), "", "expected a spec file or a folder of specs, found nothing there",
+                       "give the path of a folder such as specs/")
+        return []
+    files = sorted(p for p in specs.rglob("*") if p.suffix in SPEC_SUFFIXES and p.is_file()
+                   and not any(part.startswith(".") for part in p.relative_to(specs).parts))
+    if not files:
+        problems.error(Mark(display_path(specs), 1, 1), "", "expected spec files (*.yaml), found none",
+                       "run 'colourspec new specs/my-spec.yaml' for a starter spec")
+    return files
+
+
+def read_sources(files: list[Path], problems: Problems) -> list[SourceSpec]:
+    out: list[SourceSpec] = []
+    seen: dict[str, SourceSpec] = {}
+    for path in files:
+        shown = display_path(path)
+        try:
+            data = path.read_bytes()
+        except OSError as e:
+            problems.error(Mark(shown, 1, 1), "", f"cannot read the file: {e.strerror}")
+            continue
+        node = parse_yaml(data, shown, problems)
+        if node is None:
+            continue
+        if not isinstance(node, Map):
+            problems.error(node.mark, "", "expected a spec mapping (key: value lines), found a list or a value")
+            continue
+        idn = node.items.get("id")
+        sid = idn.text if isinstance(idn, Scalar) else ""
+        src = SourceSpec(shown, path, node, sid)
+        if sid and sid in seen:
+            problems.error(node.key_marks["id"], "id",
+                           f"duplicate spec id '{sid}' (also used by {seen[sid].file})",
+                           "every spec needs an id of its own")
+            continue
+        if sid:
+            seen[sid] = src
+        out.append(src)
+    return out
+
+
+def merge(parent: Node, child: Node, parent_id: str) -> Node:
+    """Deep merge for inheritance: mappings merge key by key, the child wins; lists and
+    scalars are replaced whole. Keys taken from the parent remember the parent's id."""
+    if not (isinstance(parent, Map) and isinstance(child, Map)):
+        return child
+    items = dict(parent.items)
+    marks = dict(parent.key_marks)
+    inherited = {k: parent.inherited.get(k, parent_id) for k in parent.items}
+    for k, v in child.items.items():
+        items[k] = merge(parent.items[k], v, parent_id) if k in parent.items else v
+        marks[k] = child.key_marks[k]
+        if not (isinstance(v, Map) and k in parent.items):
+            inherited.pop(k, None)
+    return Map(items, marks, child.mark, inherited)
+
+
+def apply_inheritance(sources: list[SourceSpec], problems: Problems) -> dict[str, Node]:
+    by_id = {s.id: s for s in sources if s.id}
+    merged: dict[str, Node] = {}
+
+    def resolve(src: SourceSpec, chain: tuple[str, ...]) -> Node | None:
+        if src.id in merged:
+            return merged[src.id]
+        ext = src.node.items.get("extends")
+        if not isinstance(ext, Scalar) or ext.is_null:
+            result: Node | None = src.node
+        else:
+            pid = ext.text
+            if pid in chain or pid == src.id:
+                cycle = " -> ".join(chain + (src.id, pid))
+                problems.error(ext.mark, "extends", f"inheritance cycle: {cycle}",
+                               "a spec cannot extend itself or one of its descendants")
+                return None
+            parent = by_id.get(pid)
+            if parent is None:
+                problems.error(ext.mark, "extends", f"expected the id of another spec, found '{pid}'",
+                               did_you_mean(pid, by_id) or "known ids: " + ", ".join(sorted(by_id)))
+                return None
+            pnode = resolve(parent, chain + (src.id,))
+            if pnode is None:
+                return None
+            pclean = Map({k: v for k, v in pnode.items.items() if k not in ("id", "extends", "$schema")},
+                         {k: m for k, m in pnode.key_marks.items() if k not in ("id", "extends", "$schema")},
+                         pnode.mark, dict(pnode.inherited))
+            result = merge(pclean, src.node, pid)
+        if src.id:
+            merged[src.id] = result
+        return result
+
+    out = {}
+    for s in sources:
+        node = resolve(s, ())
+        if node is not None:
+            out[s.file] = node
+    return out
+
+
+def load_specs(specs: Path):
+    """Return (list of Spec, warnings) or raise InputError with every problem found."""
+    from .resolve import resolve_spec
+
+    problems = Problems()
+    files = discover(specs, problems)
+    sources = read_sources(files, problems)
+    merged = apply_inheritance(sources, problems)
+    values = {}
+    for src in sources:
+        node = merged.get(src.file)
+        if node is None:
+            continue
+        v = SPEC.check(node, "", problems)
+        if v is not INVALID:
+            values[src.file] = (src, node, v)
+    result = []
+    by_id = {v["id"]: v for (_, _, v) in values.values()}
+    for file, (src, node, v) in values.items():
+        spec = resolve_spec(file, node, v, by_id, problems)
+        if spec is not None:
+            result.append(spec)
+    if problems.errors:
+        raise InputError(problems.sorted())
+    result.sort(key=lambda s: s.id)
+    return result, sorted(set(problems.warnings))

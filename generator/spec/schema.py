@@ -1,0 +1,233 @@
+"""The spec format, version 1, declared once.
+
+The validator, the key reference in docs/spec-keys.md and the editor JSON Schema are
+all generated from the declarations below.
+"""
+from __future__ import annotations
+
+from .problems import Problems
+from .types import (INVALID, Custom, Field, Integer, ListOf, Number, Range, Record, Text,
+                    describe)
+from .yamlnodes import Map
+
+SLUG = r"[a-z0-9][a-z0-9-]*"
+NAME = r"[A-Za-z][A-Za-z0-9_-]*"
+RESERVED_PRIMARY_NAMES = ("tolerance",)
+UNIT_KEYS = ("serial", "lot", "supplier", "white", "notes")
+
+
+def _unit_interval(desc):
+    return Number(desc, minimum=0.0, maximum=1.0)
+
+
+_X = Field(_unit_interval("CIE 1931 x chromaticity coordinate"), True)
+_Y = Field(_unit_interval("CIE 1931 y chromaticity coordinate"), True)
+_U = Field(_unit_interval("CIE 1976 u' chromaticity coordinate"), True)
+_V = Field(_unit_interval("CIE 1976 v' chromaticity coordinate"), True)
+_CCT = Field(Number("correlated colour temperature, K", minimum=1000.0, maximum=100000.0, unit="K"),
+             True)
+_DUV = Field(Number("signed distance from the Planckian locus in CIE 1960 uv (positive above); "
+                    "CIE 15 holds CCT meaningful within 0.05", minimum=-0.05, maximum=0.05))
+_LUM = Field(Number("luminance, cd/m²", minimum=0.0, unit="cd/m2"))
+
+BOX = Record({
+    "dx": Field(Number("half-width in CIE 1931 x", exclusive_minimum=0.0), True),
+    "dy": Field(Number("half-height in CIE 1931 y", exclusive_minimum=0.0), True),
+}, "a rectangle centred on the target in CIE 1931 xy: |x − x0| <= dx and |y − y0| <= dy")
+
+ELLIPSE = Record({
+    "a": Field(Number("semi-major axis in CIE 1931 xy", exclusive_minimum=0.0), True),
+    "b": Field(Number("semi-minor axis in CIE 1931 xy", exclusive_minimum=0.0), True),
+    "angle": Field(Number("angle of the major axis from the +x axis, degrees",
+                          minimum=-360.0, maximum=360.0), True),
+}, "an ellipse centred on the target in CIE 1931 xy")
+
+POINT_XY = Custom(lambda n, p, pr: _point_xy(n, p, pr),
+                  {"type": "array", "items": {"type": "number", "minimum": 0, "maximum": 1},
+                   "minItems": 2, "maxItems": 2},
+                  "an [x, y] point in CIE 1931 xy", "an [x, y] pair")
+
+REGION = ListOf(POINT_XY, "a polygon of [x, y] corners in CIE 1931 xy (may be non-convex)",
+                min_items=3)
+
+
+def _point_xy(node, path, problems):
+    from .types import ListOf as _L
+
+    v = _L(_unit_interval("x or y"), min_items=2, max_items=2).check(node, path, problems)
+    return INVALID if v is INVALID else (v[0], v[1])
+
+
+def _tolerance(white: bool) -> Record:
+    f = {
+        "delta_uv": Field(Number("radius of a circle around the target in CIE 1976 u'v'",
+                                 exclusive_minimum=0.0)),
+        "box": Field(BOX, description=BOX.description),
+        "ellipse": Field(ELLIPSE, description=ELLIPSE.description),
+        "region": Field(REGION, description=REGION.description),
+    }
+    if white:
+        f["cct"] = Field(Range("inclusive CCT range, K",
+                               bound=Number(minimum=1000.0, maximum=100000.0)))
+        f["duv"] = Field(Range("inclusive Duv range", bound=Number(minimum=-0.05, maximum=0.05)))
+    return Record(f, "limits that must all hold")
+
+
+WHITE_TOLERANCE = _tolerance(white=True)
+COLOUR_TOLERANCE = _tolerance(white=False)
+
+LIMITS = Custom(lambda n, p, pr: _limits(n, p, pr),
+                {"type": "object", "properties": {k: {"type": "number", "minimum": 0}
+                                                  for k in ("target", "min", "max")},
+                 "additionalProperties": False},
+                "target, min and max luminance, cd/m² (each optional)", "{target, min, max}")
+
+
+def _limits(node, path, problems):
+    r = Record({k: Field(Number(f"{k} luminance, cd/m²", minimum=0.0)) for k in ("target", "min", "max")})
+    v = r.check(node, path, problems)
+    if v is INVALID:
+        return v
+    if "min" in v and "max" in v and v["min"] > v["max"]:
+        problems.error(node.mark, path, f"expected min <= max, found min {v['min']:g} > max {v['max']:g}")
+        return INVALID
+    return v
+
+
+def _forms(extra: dict[str, Field], names: bool, cct: bool, xyz: bool) -> dict[str, Record]:
+    forms = {"xy": Record({"x": _X, "y": _Y, **extra}),
+             "uv": Record({"u_prime": _U, "v_prime": _V, **extra})}
+    if cct:
+        forms["cct"] = Record({"cct": _CCT, "duv": _DUV, **extra})
+    if xyz:
+        forms["XYZ"] = Record({"X": Field(Number("CIE X", minimum=0.0), True),
+                               "Y": Field(Number("CIE Y, cd/m²", minimum=0.0), True),
+                               "Z": Field(Number("CIE Z", minimum=0.0), True), **extra})
+    return forms
+
+
+def chromaticity(description: str, *, extra: dict[str, Field] | None = None, names: bool = False,
+                 cct: bool = False, xyz: bool = False) -> Custom:
+    """A chromaticity in one of its written forms; returns {'form': ..., coordinates..., extras...}."""
+    extra = extra or {}
+    forms = _forms(extra, names, cct, xyz)
+    written = ["{x, y}", "{u_prime, v_prime}"] + (["{cct, duv}"] if cct else []) + (
+        ["{X, Y, Z}"] if xyz else [])
+    if names:
+        written.insert(0, "a named illuminant")
+
+    def check(node, path, problems: Problems):
+        if names and not isinstance(node, Map):
+            v = Text().check(node, path, problems)
+            return INVALID if v is INVALID else {"form": "name", "name": v}
+        if not isinstance(node, Map):
+            problems.error(node.mark, path, f"expected {' or '.join(written)}, found {describe(node)}")
+            return INVALID
+        keys = set(node.items)
+        form = ("xy" if keys & {"x", "y"} else "uv" if keys & {"u_prime", "v_prime"}
+                else "cct" if cct and "cct" in keys else "XYZ" if xyz and keys & {"X", "Z"} else None)
+        if form is None:
+            problems.error(node.mark, path,
+                           f"expected {' or '.join(written)}, found keys {', '.join(sorted(keys)) or 'none'}",
+                           "give the coordinates as x and y, for example {x: 0.3127, y: 0.3290}")
+            return INVALID
+        v = forms[form].check(node, path, problems)
+        if v is INVALID:
+            return v
+        return {"form": form, **v}
+
+    alternatives = [f.json_schema() for f in forms.values()]
+    if names:
+        alternatives.insert(0, {"type": "string", "description": "a named illuminant"})
+    return Custom(check, {"oneOf": alternatives}, description, " or ".join(written))
+
+
+WHITE = Record({
+    "target": Field(chromaticity("the white's target chromaticity", names=True, cct=True), True,
+                    "a named illuminant (A, C, D50, D55, D65, D75, E, DCI), {x, y}, "
+                    "{u_prime, v_prime} or {cct, duv}"),
+    "tolerance": Field(WHITE_TOLERANCE, description="limits on the white; every listed limit must hold"),
+    "luminance": Field(LIMITS, description="white luminance limits, cd/m²"),
+}, "the white point: target, tolerances and luminance")
+
+PRIMARY = chromaticity("a primary's target chromaticity",
+                       extra={"tolerance": Field(COLOUR_TOLERANCE,
+                                                 description="this primary's own limits, replacing the default")})
+
+PRIMARIES = Record({"tolerance": Field(COLOUR_TOLERANCE, description="default limits for every primary")},
+                   "the display's primaries by name (three or more); their convex hull is the gamut",
+                   extra=PRIMARY, extra_key=NAME,
+                   extra_help="any other key names a primary, e.g. red: {x: 0.64, y: 0.33}")
+
+REFERENCE_NAMES = ("srgb", "bt709", "dci-p3", "display-p3", "bt2020", "adobe-rgb-1998", "ntsc-1953",
+                   "ebu-3213", "smpte-c")
+
+GAMUT_REQUIREMENT = Custom(lambda n, p, pr: _gamut_requirement(n, p, pr), {}, "", "")
+
+
+def _gamut_requirement(node, path, problems):
+    v = _GAMUT_RECORD.check(node, path, problems)
+    if v is INVALID:
+        return v
+    if "min" not in v and "max" not in v:
+        problems.error(node.mark, path, "expected a limit: min or max (percent), found neither",
+                       "for example min: 95")
+        return INVALID
+    if "min" in v and "max" in v and v["min"] > v["max"]:
+        problems.error(node.mark, path, f"expected min <= max, found min {v['min']:g} > max {v['max']:g}")
+        return INVALID
+    v.setdefault("diagram", "xy")
+    return v
+
+
+_GAMUT_RECORD = Record({
+    "reference": Field(Text("a named reference space or another spec's id", pattern=SLUG,
+                            pattern_help="a reference name such as bt2020 or a spec id"), True,
+                       "one of " + ", ".join(REFERENCE_NAMES) + ", or another spec's id"),
+    "metric": Field(Text("coverage: share of the reference inside the gamut; area-ratio: gamut "
+                         "area over reference area", choices=("coverage", "area-ratio")), True),
+    "diagram": Field(Text("xy: CIE 1931; uv: CIE 1976 u'v' (default xy)", choices=("xy", "uv"))),
+    "min": Field(Number("lowest allowed value, percent", minimum=0.0, unit="%")),
+    "max": Field(Number("highest allowed value, percent", minimum=0.0, unit="%")),
+    "note": Field(Text("why this requirement exists")),
+}, "a requirement on the gamut of the primaries")
+GAMUT_REQUIREMENT.schema = _GAMUT_RECORD.json_schema()
+GAMUT_REQUIREMENT.expects = "a gamut requirement {reference, metric, diagram, min or max}"
+
+MEASURED = chromaticity("a measured chromaticity, with luminance Y in cd/m² where known",
+                        extra={"Y": _LUM}, xyz=True)
+
+UNIT = Record({
+    "serial": Field(Text("the unit's serial number"), True),
+    "lot": Field(Text("the production lot")),
+    "supplier": Field(Text("who made and measured the unit")),
+    "white": Field(MEASURED, description="measured white, {x, y, Y}"),
+    "notes": Field(Text("free text about the unit")),
+}, "one measured unit; other keys are its measured primaries by name",
+    extra=MEASURED, extra_key=NAME,
+    extra_help="other keys are measured primaries and must match a primary's name")
+
+SPEC = Record({
+    "$schema": Field(Text("address of the editor JSON Schema (ignored by the tool)")),
+    "spec": Field(Integer("format version", allowed=(1,)), True, "the format version: spec: 1"),
+    "id": Field(Text("unique slug, used for URLs", pattern=SLUG,
+                     pattern_help="a slug of lower-case letters, digits and hyphens"), True,
+                "a unique slug such as orvane-27-studio"),
+    "title": Field(Text("title of the spec")),
+    "product": Field(Text("the product the spec is for")),
+    "family": Field(Text("product family, for grouping on the index")),
+    "category": Field(Text("kind of product; signal, safety and lighting specs carry a caution",
+                           choices=("display", "indicator", "lighting", "signal", "safety"))),
+    "revision": Field(Text("revision label")),
+    "status": Field(Text("life-cycle status", choices=("draft", "released", "obsolete"))),
+    "observer": Field(Text("standard observer", choices=("cie1931-2", "cie1964-10"))),
+    "extends": Field(Text("id of a spec to inherit from", pattern=SLUG,
+                          pattern_help="a spec id")),
+    "owner": Field(Text("who owns the spec")),
+    "notes": Field(Text("Markdown notes shown on the spec page")),
+    "white": Field(WHITE, description=WHITE.description),
+    "primaries": Field(PRIMARIES, description=PRIMARIES.description),
+    "gamut": Field(ListOf(GAMUT_REQUIREMENT, "requirements on the gamut"),
+                   description="requirements on the gamut of the primaries"),
+    "units": Field(ListOf(UNIT, "measured units"), description="measured units, inline"),
+}, "a colour specification, format version 1")
