@@ -103,7 +103,7 @@ def chromaticity_diagram(layer: Layer, diagram: str):
     ax.set_aspect("equal")
     ax.grid(color=PALETTE["grid"], lw=0.4)
     ax.set_title(layer.title, fontsize=10)
-    ax.legend(loc="upper right", fontsize=7, frameon=True)
+    ax.legend(loc="upper right" if diagram == "xy" else "lower right", fontsize=7, frameon=True)
     return fig, ax
 
 
@@ -132,7 +132,7 @@ def white_closeup(layer: Layer, span: float = 0.02):
         line = uv1960_to_uv_prime(uv_from_cct_duv(T, duv))
         ax.plot(*line.T, color=PALETTE["isotherm"], lw=0.5, ls=":", zorder=1)
         j = np.argmin(np.hypot(*(line - (w + [half * 0.8, 0])).T))
-        ax.text(*line[j], f"Duv {duv:+.3f}", fontsize=6, color="#666666", zorder=1)
+        ax.text(*line[j], f"Duv {duv:+.3f}", fontsize=6, color="#666666", zorder=1, clip_on=True)
     pl = uv1960_to_uv_prime(planck_uv(T))
     ax.plot(*pl.T, color=PALETTE["planck"], lw=1.0, label="Planckian locus", zorder=2)
     for t in (2000, 2500, 2700, 3000, 3500, 4000, 4500, 5000, 5700, 6500, 7500, 9300, 12000, 20000):
