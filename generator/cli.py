@@ -1,4 +1,4 @@
-"""Command line: colourspec build | check | new.
+"""Command line: colourspec build | check | schema | new.
 
 Exit status: 0 every assessed requirement passes; 1 at least one fails; 2 invalid input
 or usage; 3 an internal error (a bug: please report it with the traceback shown).
@@ -34,6 +34,8 @@ def _parser() -> argparse.ArgumentParser:
     c.add_argument("specs", nargs="?", default="specs", help="spec file or folder (default: specs/)")
     c.add_argument("--json", metavar="FILE", help="write results.json here ('-' for standard output)")
     c.add_argument("--junit", metavar="FILE", help="write JUnit XML here")
+    sc = sub.add_parser("schema", help="write the JSON Schema (draft-07) of the spec format")
+    sc.add_argument("-o", "--output", default="-", help="file to write ('-' for standard output)")
     n = sub.add_parser("new", help="write a commented starter spec")
     n.add_argument("path", help="where to write it, e.g. specs/my-panel.yaml")
     n.add_argument("--id", help="spec id (default: from the file name)")
@@ -96,6 +98,13 @@ def cmd_build(args) -> int:
     return summary.exit_code
 
 
+def cmd_schema(args) -> int:
+    from .docs import json_schema_text
+
+    _write_out(args.output, json_schema_text())
+    return EXIT_PASS
+
+
 def cmd_new(args) -> int:
     from .starter import write_starter
 
@@ -108,7 +117,7 @@ def main(argv: list[str] | None = None) -> int:
 
     args = _parser().parse_args(argv)
     try:
-        return {"build": cmd_build, "check": cmd_check, "new": cmd_new}[args.command](args)
+        return {"build": cmd_build, "check": cmd_check, "new": cmd_new, "schema": cmd_schema}[args.command](args)
     except InputError as e:
         _report_problems(e.problems)
         return EXIT_INPUT

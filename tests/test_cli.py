@@ -1,0 +1,140 @@
+"""The command line as CI uses it: exit codes, --json, --junit, no plotting on check."""
+from __future__ import annotations
+
+import json
+import subprocess
+import sys
+from xml.etree import ElementTree as ET
+
+from .conftest import DEMO_SPECS, ROOT
+
+PASSING = """\
+spec: 1
+id: tiny-panel
+title: Tiny panel
+revision: A
+status: draft
+white:
+  target: D65
+  tolerance: {cct: [6000, 7000]}
+primaries:
+  red:   {x: 0.640, y: 0.330}
+  green: {x: 0.300, y: 0.600}
+  blue:  {x: 0.150, y: 0.060}
+gamut:
+  - {reference: srgb, metric: coverage, diagram: xy, min: 99}
+"""
+
+
+def run(*args, cwd=ROOT):
+    return subprocess.run([sys.executable, "-m", "generator", *args], cwd=cwd, capture_output=True,
+                          text=True, timeout=120)
+
+
+def test_check_passes_with_exit_0_and_writes_results(spec_dir, tmp_path):
+    spec_dir("tiny.yaml", PASSING)
+    out = tmp_path / "r.json"
+    r = run("check", str(spec_dir.dir), "--json", str(out))
+    assert r.returncode == 0, r.stderr
+    doc = json.loads(out.read_text())
+    assert doc["format"] == "colourspec-results/1"
+    assert [s["verdict"] for s in doc["specs"]] == ["pass"]
+    assert "1 spec: all pass" in r.stderr
+
+
+def test_check_fails_with_exit_1_when_a_requirement_fails(spec_dir):
+    spec_dir("tiny.yaml", PASSING.replace("min: 99", "min: 101, max: 120").replace("metric: coverage",
+                                                                                  "metric: area-ratio"))
+    r = run("check", str(spec_dir.dir), "--json", "-")
+    assert r.returncode == 1
+    doc = json.loads(r.stdout)
+    row = [x for x in doc["specs"][0]["requirements"] if x["quantity"] == "area-ratio"][0]
+    assert row["verdict"] == "fail" and row["value"] == 100.0
+
+
+def test_invalid_spec_exits_2_with_file_line_and_key(spec_dir):
+    spec_dir("tiny.yaml", PASSING.replace("status: draft", "status: no"))
+    r = run("check", str(spec_dir.dir))
+    assert r.returncode == 2
+    assert "tiny.yaml:5:9: status: expected one of draft, released, obsolete, found 'no'" in r.stderr
+    assert "Traceback" not in r.stderr
+
+
+def test_usage_error_exits_2():
+    r = run("frobnicate")
+    assert r.returncode == 2
+    assert "invalid choice" in r.stderr
+
+
+def test_junit_has_one_suite_per_spec_file_and_one_case_per_row(tmp_path):
+    out = tmp_path / "j.xml"
+    r = run("check", str(DEMO_SPECS), "--junit", str(out), "--json", str(tmp_path / "r.json"))
+    assert r.returncode == 1
+    doc = json.loads((tmp_path / "r.json").read_text())
+    root = ET.parse(out).getroot()
+    suites = root.findall("testsuite")
+    assert sorted(s.get("name") for s in suites) == sorted(s["file"] for s in doc["specs"])
+    n_rows = sum(len(s["requirements"]) for s in doc["specs"])
+    assert len(root.findall("testsuite/testcase")) == n_rows == int(root.get("tests"))
+    n_fail = sum(r["verdict"] != "pass" for s in doc["specs"] for r in s["requirements"])
+    assert len(root.findall("testsuite/testcase/failure")) == n_fail > 0
+
+
+def test_check_does_not_import_matplotlib():
+    code = ("import sys; from generator.cli import main; rc = main(['check', 'specs']); "
+            "print('matplotlib' in sys.modules, rc)")
+    r = subprocess.run([sys.executable, "-c", code], cwd=ROOT, capture_output=True, text=True, timeout=120)
+    assert r.stdout.split() == ["False", "1"], r.stderr
+
+
+def test_build_summary_names_pages_diagrams_and_failing_specs(tmp_path):
+    r = run("build", str(DEMO_SPECS), "-o", str(tmp_path / "out"))
+    assert r.returncode == 1, r.stderr
+    line = r.stdout.strip().splitlines()[-1]
+    assert line.startswith("Built 6 spec pages and 18 diagrams into ")
+    assert "corvinta-atlas-27-studio" in line
+
+
+def test_failed_build_leaves_the_previous_site_untouched(spec_dir, tmp_path):
+    spec_dir("tiny.yaml", PASSING)
+    out = tmp_path / "site"
+    assert run("build", str(spec_dir.dir), "-o", str(out)).returncode == 0
+    before = {p: p.read_bytes() for p in out.rglob("*") if p.is_file()}
+    spec_dir("tiny.yaml", PASSING.replace("x: 0.640", "x: 0.94"))
+    r = run("build", str(spec_dir.dir), "-o", str(out))
+    assert r.returncode == 2
+    after = {p: p.read_bytes() for p in out.rglob("*") if p.is_file()}
+    assert after == before
+
+
+def test_new_writes_a_starter_spec_that_validates(tmp_path):
+    target = tmp_path / "specs" / "my-panel.yaml"
+    r = run("new", str(target))
+    assert r.returncode == 0, r.stderr
+    assert "id: my-panel" in target.read_text()
+    r = run("check", str(target))
+    assert r.returncode == 0, r.stderr
+    assert run("new", str(target)).returncode == 2  # refuses to overwrite
+
+
+def test_schema_is_draft07_and_accepts_every_demo_spec(tmp_path):
+    import jsonschema
+    import yaml
+
+    r = run("schema")
+    assert r.returncode == 0
+    schema = json.loads(r.stdout)
+    jsonschema.Draft7Validator.check_schema(schema)
+    v = jsonschema.Draft7Validator(schema)
+    for f in sorted(DEMO_SPECS.glob("*.yaml")):
+        assert list(v.iter_errors(yaml.safe_load(f.read_text()))) == [], f.name
+    bad = yaml.safe_load(PASSING.replace("status: draft", "status: finished"))
+    assert list(v.iter_errors(bad))
+
+
+def test_generated_key_reference_is_up_to_date():
+    from generator.docs import json_schema_text, spec_keys_markdown
+
+    assert (ROOT / "docs" / "spec-keys.md").read_text(encoding="utf-8") == spec_keys_markdown(), \
+        "regenerate with: python -m generator.docs"
+    assert (ROOT / "docs" / "spec-1.schema.json").read_text(encoding="utf-8") == json_schema_text()
