@@ -11,7 +11,7 @@ from pathlib import Path
 
 from .problems import InputError, Problems, did_you_mean
 from .schema import SPEC
-from .types import INVALID
+from .types import INVALID, describe
 from .yamlnodes import Map, Mark, Node, Scalar, parse_yaml
 
 SPEC_SUFFIXES = (".yaml", ".yml")
@@ -63,15 +63,15 @@ def read_sources(files: list[Path], problems: Problems) -> list[SourceSpec]:
         if node is None:
             continue
         if not isinstance(node, Map):
-            problems.error(node.mark, "", "expected a spec mapping (key: value lines), found a list or a value")
+            problems.error(node.mark, "", f"expected a spec mapping (key: value lines), found {describe(node)}",
+                           "a spec starts with lines such as 'spec: 1' and 'id: my-spec'")
             continue
         idn = node.items.get("id")
-        sid = idn.text if isinstance(idn, Scalar) else ""
+        sid = idn.text if isinstance(idn, Scalar) and not idn.is_null else ""
         src = SourceSpec(shown, path, node, sid)
         if sid and sid in seen:
-            problems.error(node.key_marks["id"], "id",
-                           f"duplicate spec id '{sid}' (also used by {seen[sid].file})",
-                           "every spec needs an id of its own")
+            problems.error(idn.mark, "id", f"expected an id of its own, found '{sid}' again "
+                           f"(also the id of {seen[sid].file})", "every spec needs an id of its own")
             continue
         if sid:
             seen[sid] = src
@@ -97,7 +97,7 @@ def merge(parent: Node, child: Node, parent_id: str) -> Node:
 
 def apply_inheritance(sources: list[SourceSpec], problems: Problems) -> dict[str, Node]:
     by_id = {s.id: s for s in sources if s.id}
-    merged: dict[str, Node] = {}
+    merged: dict[str, Node | None] = {}  # None: this spec's ancestry is broken (already reported)
 
     def resolve(src: SourceSpec, chain: tuple[str, ...]) -> Node | None:
         if src.id in merged:
@@ -105,20 +105,22 @@ def apply_inheritance(sources: list[SourceSpec], problems: Problems) -> dict[str
         ext = src.node.items.get("extends")
         if not isinstance(ext, Scalar) or ext.is_null:
             result: Node | None = src.node
+        elif ext.text in chain + (src.id,):
+            cycle = (chain + (src.id,))[(chain + (src.id,)).index(ext.text):] + (ext.text,)
+            problems.error(ext.mark, "extends", "expected a spec that does not inherit from itself, "
+                           f"found the cycle {' -> '.join(cycle)}",
+                           "a spec cannot extend itself or one of its descendants")
+            result = None
         else:
             pid = ext.text
-            if pid in chain or pid == src.id:
-                cycle = " -> ".join(chain + (src.id, pid))
-                problems.error(ext.mark, "extends", f"inheritance cycle: {cycle}",
-                               "a spec cannot extend itself or one of its descendants")
-                return None
             parent = by_id.get(pid)
+            pnode = resolve(parent, chain + (src.id,)) if parent is not None else None
             if parent is None:
                 problems.error(ext.mark, "extends", f"expected the id of another spec, found '{pid}'",
                                did_you_mean(pid, by_id) or "known ids: " + ", ".join(sorted(by_id)))
-                return None
-            pnode = resolve(parent, chain + (src.id,))
             if pnode is None:
+                if src.id:
+                    merged[src.id] = None
                 return None
             pclean = Map({k: v for k, v in pnode.items.items() if k not in ("id", "extends", "$schema")},
                          {k: m for k, m in pnode.key_marks.items() if k not in ("id", "extends", "$schema")},
@@ -154,7 +156,7 @@ def load_specs(specs: Path):
             values[src.file] = (src, node, v)
     result = []
     by_id = {v["id"]: v for (_, _, v) in values.values()}
-    for file, (src, node, v) in values.items():
+    for file, (_, node, v) in values.items():
         spec = resolve_spec(file, node, v, by_id, problems)
         if spec is not None:
             result.append(spec)

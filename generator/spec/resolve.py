@@ -11,8 +11,7 @@ from ..colour.gamut import convex_hull, polygon_area
 from ..colour.region import in_polygon
 from ..colour.wavelength import outside_locus_distance
 from ..data import ILLUMINANTS, REFERENCE_SPACES
-from ..model import (GamutRequirement, Measurement, Primary, ReferenceGamut, Spec, Tolerance,
-                     Unit, White)
+from ..model import GamutRequirement, Measurement, Primary, ReferenceGamut, Spec, Tolerance, Unit, White
 from .problems import Problems, did_you_mean
 from .schema import RESERVED_PRIMARY_NAMES, UNIT_KEYS
 from .yamlnodes import Map, Mark, Node, Seq
@@ -25,11 +24,14 @@ MEASURED_LOCUS_LIMIT = 0.02
 _MIN_GAMUT_AREA = 1e-6
 
 
-def mark_at(node: Node, path: list) -> Mark:
-    """The position of the value at ``path`` (keys and list indices), or the nearest parent."""
+def mark_at(node: Node, path: list, key: bool = False) -> Mark:
+    """The position of the value at ``path`` (keys and list indices), or the nearest parent;
+    with ``key``, the position of the last key itself."""
     cur = node
-    for p in path:
+    for i, p in enumerate(path):
         if isinstance(cur, Map) and p in cur.items:
+            if key and i == len(path) - 1:
+                return cur.key_marks[p]
             cur = cur.items[p]
         elif isinstance(cur, Seq) and isinstance(p, int) and p < len(cur.items):
             cur = cur.items[p]
@@ -62,8 +64,8 @@ class _Resolver:
         self.file, self.node, self.problems = file, node, problems
         self.ok = True
 
-    def error(self, path, message, hint=""):
-        self.problems.error(mark_at(self.node, path), _dotted(path), message, hint)
+    def error(self, path, message, hint="", key=False):
+        self.problems.error(mark_at(self.node, path, key), _dotted(path), message, hint)
         self.ok = False
 
     def warn(self, path, message, hint=""):
@@ -95,18 +97,21 @@ class _Resolver:
         """Check a chromaticity is real; returns its distance outside the locus."""
         x, y = xy
         if x + y > 1 + 1e-12:
-            self.error(path, f"x + y must not exceed 1, found x + y = {x + y:.4f}",
+            self.error(path, f"expected x + y <= 1, found x + y = {x + y:.4f}",
                        "no real colour has x + y > 1; check for swapped or mistyped coordinates")
             return None
         d = float(outside_locus_distance(np.array(xy), observer))
         limit = MEASURED_LOCUS_LIMIT if measured else LOCUS_TOLERANCE
         if d > limit:
-            self.error(path, f"chromaticity ({x:.4f}, {y:.4f}) lies {d:.4f} outside the spectral locus",
-                       "no real light has this chromaticity; check the coordinates")
+            what = "a measured chromaticity within" if measured else "a chromaticity inside"
+            self.error(path, f"expected {what} the spectral locus, found ({x:.4f}, {y:.4f}), "
+                       f"{d:.4f} outside it", "no real light has this chromaticity; check the coordinates"
+                       + (f" (measurements up to {MEASURED_LOCUS_LIMIT} outside pass as noise)" if measured
+                          else f" (targets up to {LOCUS_TOLERANCE} outside count as on the locus)"))
             return None
         if d > LOCUS_TOLERANCE:
-            self.warn(path, f"measured chromaticity lies {d:.4f} outside the spectral locus",
-                      "instrument noise or calibration; the value is still assessed")
+            self.warn(path, f"measured chromaticity ({x:.4f}, {y:.4f}) lies {d:.4f} outside the spectral "
+                      "locus; it is still assessed", "taken as instrument noise or a calibration error")
         return d
 
 
@@ -159,25 +164,7 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems)
         primaries.append(Primary(name, xy, _tolerance(own if own is not None else default_tol),
                                  "own" if own is not None else "default"))
     if "primaries" in v and r.ok:
-        names = [n for n in pv if n not in RESERVED_PRIMARY_NAMES]
-        if len(names) < 3:
-            r.error(["primaries"], f"expected three or more primaries, found {len(names)}",
-                    "a gamut needs at least red, green and blue")
-        else:
-            pts = np.array([p.xy for p in primaries])
-            hull = convex_hull(pts)
-            if len(hull) < 3 or polygon_area(hull) < _MIN_GAMUT_AREA:
-                r.error(["primaries"], "the primaries are collinear or coincide: they span no gamut",
-                        "check for a repeated or mistyped primary")
-            else:
-                inner = [p.name for p in primaries if not _on_hull(p.xy, hull)]
-                if inner:
-                    r.warn(["primaries"], f"primary {', '.join(inner)} lies inside the gamut of the others",
-                           "it adds nothing to the gamut area")
-                if white is not None and not bool(in_polygon(np.array(white.xy), hull)):
-                    r.error(["white", "target"], f"the white ({white.xy[0]:.4f}, {white.xy[1]:.4f}) "
-                            "lies outside the gamut of the primaries",
-                            "a display cannot make a white outside its own gamut; check the white and primaries")
+        _check_gamut_shape(r, [n for n in pv if n not in RESERVED_PRIMARY_NAMES], primaries, white)
 
     references = {k: ReferenceGamut(k, s.title, s.primaries, s.white, s.source)
                   for k, s in REFERENCE_SPACES.items()}
@@ -197,7 +184,8 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems)
                 continue
             references[ref] = rg
         if not primaries:
-            r.error(["gamut", i], "a gamut requirement needs primaries, and the spec has none")
+            r.error(["gamut", i], "expected primaries to assess this gamut requirement on, found none",
+                    "add a primaries: section, or remove the requirement")
             continue
         gamut.append(GamutRequirement(i, ref, g["metric"], g["diagram"], g.get("min"), g.get("max"),
                                       g.get("note", "")))
@@ -208,7 +196,8 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems)
     for i, u in enumerate(v.get("units", [])):
         serial = u["serial"]
         if serial in seen_serials:
-            r.error(["units", i, "serial"], f"duplicate serial '{serial}' (also units[{seen_serials[serial]}])")
+            r.error(["units", i, "serial"], f"expected a serial of its own, found '{serial}' again "
+                    f"(also units[{seen_serials[serial]}])", "every measured unit needs a unique serial")
             continue
         seen_serials[serial] = i
         white_m = _measure(r, u.get("white"), ["units", i, "white"], observer) if "white" in u else None
@@ -217,8 +206,9 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems)
             if key in UNIT_KEYS:
                 continue
             if key not in names:
-                r.error(["units", i, key], f"unknown key '{key}': not a primary of this spec",
-                        did_you_mean(key, names + list(UNIT_KEYS)) or "primaries: " + ", ".join(names))
+                r.error(["units", i, key], f"expected a unit key or a primary of this spec, found unknown key '{key}'",
+                        did_you_mean(key, names + list(UNIT_KEYS))
+                        or f"primaries: {', '.join(names)}; unit keys: {', '.join(UNIT_KEYS)}", key=True)
                 continue
             mm = _measure(r, m, ["units", i, key], observer)
             if mm is not None:
@@ -235,6 +225,44 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems)
         extends=v.get("extends", ""), owner=v.get("owner", ""), notes=v.get("notes", ""),
         white=white, primaries=primaries, gamut=gamut, units=units, references=references,
         inherited=dict(node.inherited), warnings=warnings)
+
+
+def _check_gamut_shape(r: _Resolver, names: list[str], primaries: list[Primary], white: White | None) -> None:
+    """Three or more distinct primaries spanning an area, with the white inside their gamut."""
+    if len(names) < 3:
+        r.error(["primaries"], f"expected three or more primaries, found {len(names)}",
+                "a gamut needs at least red, green and blue")
+        return
+    if _report_repeats(r, primaries):
+        return
+    hull = convex_hull(np.array([p.xy for p in primaries]))
+    if len(hull) < 3 or polygon_area(hull) < _MIN_GAMUT_AREA:
+        r.error(["primaries"], "expected primaries that span an area, found them on one line",
+                "a gamut needs primaries at the corners of a triangle; check for a mistyped primary")
+        return
+    inner = [p.name for p in primaries if not _on_hull(p.xy, hull)]
+    if inner:
+        r.warn(["primaries"], f"primary {', '.join(inner)} lies inside the gamut of the others",
+               "it adds nothing to the gamut area")
+    if white is not None and not bool(in_polygon(np.array(white.xy), hull)):
+        r.error(["white", "target"], "expected a white inside the gamut of the primaries, found "
+                f"({white.xy[0]:.4f}, {white.xy[1]:.4f}) outside it",
+                "a display cannot make a white outside its own gamut; check the white and primaries")
+
+
+def _report_repeats(r: _Resolver, primaries: list[Primary]) -> bool:
+    """Report every primary at the same chromaticity as an earlier one; True if any."""
+    first: dict[tuple, str] = {}
+    found = False
+    for p in primaries:
+        key = (round(p.xy[0], 9), round(p.xy[1], 9))
+        if key in first:
+            r.error(["primaries", p.name], f"expected a chromaticity of its own, found the same as {first[key]}",
+                    "check for a copied or mistyped primary")
+            found = True
+        else:
+            first[key] = p.name
+    return found
 
 
 def _on_hull(xy, hull) -> bool:

@@ -6,8 +6,7 @@ all generated from the declarations below.
 from __future__ import annotations
 
 from .problems import Problems
-from .types import (INVALID, Custom, Field, Integer, ListOf, Number, Range, Record, Text,
-                    describe)
+from .types import INVALID, Custom, Field, Integer, ListOf, Number, Range, Record, Text, describe
 from .yamlnodes import Map
 
 SLUG = r"[a-z0-9][a-z0-9-]*"
@@ -157,7 +156,8 @@ PRIMARY = chromaticity("a primary's target chromaticity",
 PRIMARIES = Record({"tolerance": Field(COLOUR_TOLERANCE, description="default limits for every primary")},
                    "the display's primaries by name (three or more); their convex hull is the gamut",
                    extra=PRIMARY, extra_key=NAME,
-                   extra_help="any other key names a primary, e.g. red: {x: 0.64, y: 0.33}")
+                   extra_help="any other key names a primary, e.g. red: {x: 0.64, y: 0.33}",
+                   expects="a mapping of primaries by name, e.g. red: {x: 0.64, y: 0.33}")
 
 REFERENCE_NAMES = ("srgb", "bt709", "dci-p3", "display-p3", "bt2020", "adobe-rgb-1998", "ntsc-1953",
                    "ebu-3213", "smpte-c")

@@ -8,8 +8,9 @@ from __future__ import annotations
 
 import math
 import re
+from collections.abc import Callable
 from dataclasses import dataclass, field
-from typing import Any, Callable
+from typing import Any
 
 from .problems import Problems, did_you_mean
 from .yamlnodes import Map, Node, Scalar, Seq
@@ -30,6 +31,10 @@ _NONFINITE = re.compile(r"^[-+]?\.?(inf|nan)(inity)?$", re.IGNORECASE)
 _BOOLISH = {"yes", "no", "on", "off", "y", "n", "true", "false"}
 
 
+def _short(text: str, limit: int = 40) -> str:
+    return text if len(text) <= limit else f"{text[:limit]}... ({len(text)} characters)"
+
+
 def describe(node: Node) -> str:
     """How a value reads in an error message: 'the text "x"', 'a mapping', ..."""
     if isinstance(node, Map):
@@ -39,8 +44,8 @@ def describe(node: Node) -> str:
     if node.is_null:
         return "nothing (null)"
     if not node.plain:
-        return f"the quoted text {node.text!r}"
-    return repr(node.text)
+        return f"the quoted text {_short(node.text)!r}"
+    return repr(_short(node.text))
 
 
 class Type:
@@ -64,11 +69,11 @@ def read_number(node: Node, path: str, problems: Problems, what: str = "a number
     if node.plain and _NUMBER.match(t):
         v = float(t)
         if not math.isfinite(v):
-            problems.error(node.mark, path, f"expected a finite number, found {t!r} (too large)")
+            problems.error(node.mark, path, f"expected {what}, found {_short(t)}, too large to be a number")
             return INVALID
         return v
     if node.plain and _NONFINITE.match(t):
-        problems.error(node.mark, path, f"expected a finite number, found {t!r}")
+        problems.error(node.mark, path, f"expected {what}, found {t}, which is not a finite number")
         return INVALID
     hint = ""
     if not node.plain and _NUMBER.match(t):
@@ -105,7 +110,7 @@ class Number(Type):
                or (self.maximum is not None and v > self.maximum)
                or (self.exclusive_minimum is not None and v <= self.exclusive_minimum))
         if bad:
-            problems.error(node.mark, path, f"expected {self.expected()}, found {node.text}")
+            problems.error(node.mark, path, f"expected {self.expected()}, found {_short(node.text)}")
             return INVALID
         return v
 
@@ -126,15 +131,25 @@ class Integer(Type):
     allowed: tuple[int, ...] = ()
 
     def check(self, node, path, problems):
-        if isinstance(node, Scalar) and node.plain and re.fullmatch(r"[-+]?[0-9]+", node.text.strip()):
-            v = int(node.text)
+        text = node.text.strip() if isinstance(node, Scalar) else ""
+        if isinstance(node, Scalar) and node.plain and re.fullmatch(r"[-+]?[0-9]{1,18}", text):
+            v = int(text)
             if self.allowed and v not in self.allowed:
-                problems.error(node.mark, path,
-                               f"expected one of {', '.join(map(str, self.allowed))}, found {v}")
+                problems.error(node.mark, path, f"expected {self.expected()}, found {v}")
                 return INVALID
             return v
-        problems.error(node.mark, path, f"expected a whole number, found {describe(node)}")
+        hint = "remove the quotes to give a number" if isinstance(node, Scalar) and not node.plain \
+            and re.fullmatch(r"[-+]?[0-9]+", text) else ""
+        found = _short(text) if isinstance(node, Scalar) and node.plain and text else describe(node)
+        problems.error(node.mark, path, f"expected {self.expected()}, found {found}", hint)
         return INVALID
+
+    def expected(self) -> str:
+        if len(self.allowed) == 1:
+            return f"the number {self.allowed[0]}"
+        if self.allowed:
+            return "one of " + ", ".join(map(str, self.allowed))
+        return "a whole number"
 
     def json_schema(self):
         s: dict = {"type": "integer", "description": self.description}
@@ -168,7 +183,7 @@ class Text(Type):
             problems.error(node.mark, path, f"expected one of {', '.join(self.choices)}, found {v!r}", hint)
             return INVALID
         if self.pattern and not re.fullmatch(self.pattern, v):
-            problems.error(node.mark, path, f"expected {self.expected()}, found {v!r}")
+            problems.error(node.mark, path, f"expected {self.expected()}, found {_short(v)!r}")
             return INVALID
         return v
 
@@ -202,11 +217,11 @@ class Record(Type):
     extra: Type | None = None
     extra_key: str = r"[A-Za-z][A-Za-z0-9_-]*"
     extra_help: str = ""
-    check_extra: Callable[[dict, Map, str, Problems], None] | None = None
+    expects: str = ""     # how an error names this mapping; built from the keys when empty
 
     def check(self, node, path, problems):
         if not isinstance(node, Map):
-            problems.error(node.mark, path, f"expected a mapping ({self.expected()}), found {describe(node)}")
+            problems.error(node.mark, path, f"expected {self.expected()}, found {describe(node)}")
             return INVALID
         out: dict[str, Any] = {}
         ok = True
@@ -225,7 +240,8 @@ class Record(Type):
                     hint = "known keys: " + ", ".join(self.fields)
                     if self.extra_help:
                         hint += f"; {self.extra_help}"
-                problems.error(node.key_marks[key], kpath, f"unknown key '{key}'", hint)
+                problems.error(node.key_marks[key], kpath, f"expected a known key, found unknown key '{key}'",
+                               hint)
                 ok = False
                 continue
             if v is INVALID:
@@ -235,14 +251,18 @@ class Record(Type):
         for key, f in self.fields.items():
             if f.required and key not in node.items:
                 kpath = f"{path}.{key}" if path else key
-                problems.error(node.mark, kpath, f"missing required key '{key}' ({f.type.expected()})",
-                               f.description)
+                problems.error(node.mark, kpath, f"expected the required key '{key}' "
+                               f"({f.type.expected()}), found no such key", f.description)
                 ok = False
         return out if ok else INVALID
 
     def expected(self) -> str:
+        if self.expects:
+            return self.expects
         req = [k for k, f in self.fields.items() if f.required]
-        return "with keys " + ", ".join(req) if req else "keys " + ", ".join(self.fields)
+        if len(req) == 1:
+            return f"a mapping with the key {req[0]}"
+        return f"a mapping with the keys {', '.join(req)}" if req else "a mapping of " + ", ".join(self.fields)
 
     def json_schema(self):
         props = {}
@@ -314,8 +334,8 @@ class Range(Type):
         elif isinstance(node, Map):
             unknown = [k for k in node.items if k not in ("min", "max")]
             for k in unknown:
-                problems.error(node.key_marks[k], f"{path}.{k}", f"unknown key '{k}'",
-                               did_you_mean(k, ("min", "max")) or "a range has min and max")
+                problems.error(node.key_marks[k], f"{path}.{k}", f"expected min or max, found unknown key '{k}'",
+                               did_you_mean(k, ("min", "max")))
             if not node.items:
                 problems.error(node.mark, path, "expected a range with min or max, found an empty mapping")
                 return INVALID

@@ -46,13 +46,13 @@ class Scalar:
 
 @dataclass(eq=False)
 class Seq:
-    items: list["Node"]
+    items: list[Node]
     mark: Mark
 
 
 @dataclass(eq=False)
 class Map:
-    items: dict[str, "Node"]
+    items: dict[str, Node]
     key_marks: dict[str, Mark]
     mark: Mark
     # where each key came from when inheritance merged two mappings: key -> spec id
@@ -63,49 +63,48 @@ Node = Union[Scalar, Seq, Map]
 
 
 class _TooBig(Exception):
-    pass
+    def __init__(self, message: str, mark: Mark, hint: str):
+        super().__init__(message)
+        self.mark, self.hint = mark, hint
 
 
 def _mark(file: str, m) -> Mark:
     return Mark(file, m.line + 1, m.column + 1)
 
 
+def _position(text: str, index: int) -> tuple[int, int]:
+    """1-based line and column of a character index (or byte index, for bytes)."""
+    nl = "\n" if isinstance(text, str) else b"\n"
+    return text.count(nl, 0, index) + 1, index - (text.rfind(nl, 0, index) + 1) + 1
+
+
 def parse_yaml(data: bytes, file: str, problems: Problems) -> Node | None:
     """Parse one YAML document into nodes; every problem goes to ``problems``."""
     top = Mark(file, 1, 1)
     if len(data) > MAX_BYTES:
-        problems.error(top, "", f"file too large: {len(data)} bytes, the limit is {MAX_BYTES}",
+        problems.error(top, "", f"expected a file of at most {MAX_BYTES} bytes, found {len(data)} bytes",
                        "split the file, or raise generator.spec.yamlnodes.MAX_BYTES")
         return None
     try:
         text = data.decode("utf-8-sig")
     except UnicodeDecodeError as e:
-        line = data[: e.start].count(b"\n") + 1
-        col = e.start - (data.rfind(b"\n", 0, e.start) + 1) + 1
-        problems.error(Mark(file, line, col), "", f"expected UTF-8 text, found byte 0x{data[e.start]:02x}",
+        body = e.object  # the bytes after any byte order mark; e.start counts from there
+        line, col = _position(body, e.start)
+        problems.error(Mark(file, line, col), "", f"expected UTF-8 text, found the byte 0x{body[e.start]:02x}",
                        "save the file as UTF-8")
         return None
     if "\x00" in text:
-        problems.error(top, "", "expected text, found a NUL character (binary file?)")
+        problems.error(Mark(file, *_position(text, text.index("\x00"))), "",
+                       "expected text, found a NUL character (is this a binary file?)")
         return None
     try:
         nodes = list(yaml.compose_all(text, Loader=_Loader))
-    except yaml.MarkedYAMLError as e:
-        m = e.problem_mark or e.context_mark
-        where = _mark(file, m) if m else top
-        msg = e.problem or "invalid YAML"
-        if e.context:
-            msg = f"{e.context}, {msg}"
-        hint = ""
-        if "\t" in text and "tab" in msg.lower():
-            hint = "YAML indents with spaces only; replace the tabs"
-        problems.error(where, "", f"YAML syntax error: {msg}", hint)
-        return None
     except yaml.YAMLError as e:
-        problems.error(top, "", f"YAML error: {e}")
+        _syntax_error(e, text, file, problems)
         return None
-    except RecursionError:
-        problems.error(top, "", f"document nested too deeply (limit {MAX_DEPTH} levels)")
+    except RecursionError:  # only the pure-Python composer recurses
+        problems.error(top, "", f"expected at most {MAX_DEPTH} levels of nesting, found far more",
+                       _DEPTH_HINT)
         return None
     if not nodes or nodes[0] is None:
         problems.error(top, "", "expected a spec mapping, found an empty file",
@@ -115,55 +114,135 @@ def parse_yaml(data: bytes, file: str, problems: Problems) -> Node | None:
         problems.error(_mark(file, nodes[1].start_mark), "", "expected one YAML document, found several",
                        "put each spec in a file of its own")
         return None
-    count = [0]
     try:
-        return _convert(nodes[0], file, problems, count, 0, set(), "")
+        _check_size(nodes[0], file)
+        return _convert(nodes[0], file, problems, 0, "")
     except _TooBig as e:
-        problems.error(top, "", str(e), "YAML aliases that expand this far are refused")
+        problems.error(e.mark, "", str(e), e.hint)
         return None
 
 
-def _convert(n, file, problems, count, depth, active, path) -> Node:
-    count[0] += 1
-    if count[0] > MAX_NODES:
-        raise _TooBig(f"document expands to more than {MAX_NODES} nodes")
-    if depth > MAX_DEPTH:
-        raise _TooBig(f"document nested deeper than {MAX_DEPTH} levels")
+_DEPTH_HINT = "a spec needs a few levels; this looks like a generated or corrupted file"
+
+
+def _syntax_error(e: yaml.YAMLError, text: str, file: str, problems: Problems) -> None:
+    """Report a libyaml error at the most useful place, in words a newcomer can act on."""
+    if isinstance(e, yaml.reader.ReaderError):
+        where = Mark(file, *_position(text, e.position))
+        problems.error(where, "", f"expected printable text, found the character U+{e.character:04X}",
+                       "remove the control character")
+        return
+    if not isinstance(e, yaml.MarkedYAMLError):
+        problems.error(Mark(file, 1, 1), "", f"YAML syntax error: {e}")
+        return
+    pm, cm = e.problem_mark, e.context_mark
+    m = pm or cm
+    where = _mark(file, m) if m else Mark(file, 1, 1)
+    problem = e.problem or "invalid YAML"
+    lines = text.splitlines()
+    line_text = lines[where.line - 1] if 0 < where.line <= len(lines) else ""
+    indent = line_text[: len(line_text) - len(line_text.lstrip(" \t"))]
+    if "\t" in indent or line_text[where.col - 1: where.col] == "\t":
+        tab = line_text.index("\t")
+        problems.error(Mark(file, where.line, tab + 1), "", "expected spaces for indentation, found a tab",
+                       "YAML indents with spaces only; replace the tabs with spaces")
+        return
+    if "maximum nesting depth" in problem:
+        problems.error(where, "", f"expected at most {MAX_DEPTH} levels of nesting, found far more", _DEPTH_HINT)
+        return
+    problem = _plain_words(problem)
+    context = _plain_words(e.context or "").removeprefix("while ")
+    if context and cm is not None and pm is not None and "end of the file" in problem:
+        where = _mark(file, cm)  # the unclosed start is what needs fixing
+        context = f" ({context} that starts here)"
+    elif context and cm is not None and (pm is None or (cm.line, cm.column) != (pm.line, pm.column)):
+        context = f" ({context} that starts at line {cm.line + 1}, column {cm.column + 1})"
+    elif context:
+        context = f" ({context})"
+    hint = _SYNTAX_HINTS.get(e.problem or "", "")
+    problems.error(where, "", f"YAML syntax error: {problem}{context}", hint)
+
+
+_SYNTAX_HINTS = {
+    "did not find expected key": "check this line's indentation against the lines above",
+    "mapping values are not allowed here": "quote a value that contains ': '",
+    "mapping values are not allowed in this context": "quote a value that contains ': '",
+    "found undefined alias": "a '*name' needs an '&name' earlier in the file; quote text that starts with '*'",
+}
+
+
+def _plain_words(libyaml_text: str) -> str:
+    return (libyaml_text.replace("unexpected end of stream", "the end of the file")
+            .replace("quoted scalar", "quoted text").replace("plain scalar", "value"))
+
+
+def _children(n) -> list:
+    if isinstance(n, yaml.SequenceNode):
+        return n.value
+    if isinstance(n, yaml.MappingNode):
+        return [c for kv in n.value for c in kv]
+    return []
+
+
+def _check_size(root, file: str) -> None:
+    """Refuse a document whose aliases expand it past MAX_NODES (a "billion laughs" bomb),
+    or that refers to itself, before expanding anything. Works on the shared node graph,
+    so it costs time in the number of distinct nodes, not in the expanded size."""
+    size: dict[int, int] = {}
+    open_: set[int] = set()
+    stack = [(root, False)]
+    while stack:
+        n, closing = stack.pop()
+        if closing:
+            open_.discard(id(n))
+            size[id(n)] = 1 + sum(size[id(c)] for c in _children(n))
+            if size[id(n)] > MAX_NODES:
+                raise _TooBig(f"expected at most {MAX_NODES} values once aliases are expanded, found more",
+                              _mark(file, n.start_mark), "YAML aliases that expand this far are refused")
+            continue
+        if id(n) in size:
+            continue
+        if id(n) in open_:
+            raise _TooBig("expected a value, found an alias that refers to itself", _mark(file, n.start_mark),
+                          "remove the alias, or write the value out")
+        open_.add(id(n))
+        stack.append((n, True))
+        stack.extend((c, False) for c in _children(n) if id(c) not in size)
+
+
+def _convert(n, file, problems, depth, path) -> Node:
     mark = _mark(file, n.start_mark)
+    if depth > MAX_DEPTH:
+        raise _TooBig(f"expected at most {MAX_DEPTH} levels of nesting, found more", mark, _DEPTH_HINT)
     tag = n.tag or ""
     if tag.startswith("tag:yaml.org,2002:"):
         tag = ""
     if tag and tag != "!":
-        problems.error(mark, path, f"YAML tag {n.tag!r} is not supported", "remove the tag")
+        problems.error(mark, path, f"expected a plain value, found the YAML tag {n.tag!r}", "remove the tag")
     if isinstance(n, yaml.ScalarNode):
         return Scalar(n.value, n.style in (None, ""), mark)
-    if id(n) in active:
-        raise _TooBig("a YAML alias refers to itself")
-    active.add(id(n))
-    try:
-        if isinstance(n, yaml.SequenceNode):
-            return Seq([_convert(c, file, problems, count, depth + 1, active, f"{path}[{i}]")
-                        for i, c in enumerate(n.value)], mark)
-        items: dict[str, Node] = {}
-        key_marks: dict[str, Mark] = {}
-        for k, v in n.value:
-            kmark = _mark(file, k.start_mark)
-            if not isinstance(k, yaml.ScalarNode):
-                problems.error(kmark, path, "expected a plain key, found a mapping or list as key")
-                continue
-            if k.tag == "tag:yaml.org,2002:merge" or k.value == "<<":
-                problems.error(kmark, path, "YAML merge keys ('<<') are not supported",
-                               "use 'extends: <spec id>' to inherit from another spec")
-                continue
-            key = k.value
-            kpath = f"{path}.{key}" if path else key
-            if key in items:
-                first = key_marks[key]
-                problems.error(kmark, kpath, f"duplicate key '{key}' (first given at line {first.line})",
-                               "YAML keeps only the last value; remove one of them")
-                continue
-            items[key] = _convert(v, file, problems, count, depth + 1, active, kpath)
-            key_marks[key] = kmark
-        return Map(items, key_marks, mark)
-    finally:
-        active.discard(id(n))
+    if isinstance(n, yaml.SequenceNode):
+        return Seq([_convert(c, file, problems, depth + 1, f"{path}[{i}]") for i, c in enumerate(n.value)],
+                   mark)
+    items: dict[str, Node] = {}
+    key_marks: dict[str, Mark] = {}
+    for k, v in n.value:
+        kmark = _mark(file, k.start_mark)
+        if not isinstance(k, yaml.ScalarNode):
+            problems.error(kmark, path, "expected a plain key, found a mapping or list as key")
+            continue
+        if k.tag == "tag:yaml.org,2002:merge" or k.value == "<<":
+            problems.error(kmark, path, "expected a plain key, found a YAML merge key '<<'",
+                           "use 'extends: <spec id>' to inherit from another spec")
+            continue
+        key = k.value
+        kpath = f"{path}.{key}" if path else key
+        if key in items:
+            first = key_marks[key]
+            problems.error(kmark, kpath, f"expected each key once, found '{key}' again "
+                           f"(first at line {first.line}, column {first.col})",
+                           "YAML would silently keep only the last value; remove one of them")
+            continue
+        items[key] = _convert(v, file, problems, depth + 1, kpath)
+        key_marks[key] = kmark
+    return Map(items, key_marks, mark)
