@@ -21,7 +21,7 @@ from .planck import planck_uv
 METHOD = "nearest Planckian point in CIE 1960 uv (CIE 15:2004 §9.5), Newton-refined"
 T_MIN, T_MAX = 500.0, 1.0e6
 _NEWTON_STEPS = 6
-_CHUNK = 4096
+_CHUNK = 1024
 
 
 @lru_cache(maxsize=1)
@@ -46,6 +46,14 @@ def cct_duv_from_uv(uv):
     T_tab, uv_tab = _table()
     ok = np.all(np.isfinite(flat), axis=1)
     idx_ok = np.nonzero(ok)[0]
+    # points far outside the diagram overflow the squared distances: they end as NaN
+    with np.errstate(over="ignore", invalid="ignore"):
+        _nearest_planckian(flat, idx_ok, T_tab, uv_tab, cct, duv)
+    return cct.reshape(shape), duv.reshape(shape)
+
+
+def _nearest_planckian(flat, idx_ok, T_tab, uv_tab, cct, duv):
+    """Fill cct/duv at the rows idx_ok of flat (n, 2) in place, in chunks."""
     for start in range(0, idx_ok.size, _CHUNK):
         sel = idx_ok[start:start + _CHUNK]
         p = flat[sel]
@@ -64,7 +72,6 @@ def cct_duv_from_uv(uv):
         inside = (T >= T_MIN) & (T <= T_MAX)
         cct[sel] = np.where(inside, T, np.nan)
         duv[sel] = np.where(inside, sign * dist, np.nan)
-    return cct.reshape(shape), duv.reshape(shape)
 
 
 def cct_duv_from_xy(xy):
@@ -77,11 +84,11 @@ def uv_from_cct_duv(cct, duv=0.0):
     Inverse of ``cct_duv_from_uv``: uv = uv_P(T) + Duv · n, with n the unit normal to the
     locus pointing to larger v (Ohno 2014, LEUKOS 10(1), eq. 12-13 in that sense).
     """
-    cct = np.asarray(cct, dtype=float)
-    duv = np.broadcast_to(np.asarray(duv, dtype=float), cct.shape)
+    cct, duv = np.broadcast_arrays(np.asarray(cct, dtype=float), np.asarray(duv, dtype=float))
     q, dq, _ = planck_uv(cct, derivatives=True)
     n = np.stack([dq[..., 1], -dq[..., 0]], axis=-1)
-    n = n / np.linalg.norm(n, axis=-1, keepdims=True)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        n = n / np.linalg.norm(n, axis=-1, keepdims=True)
     return q + duv[..., None] * n
 
 

@@ -23,19 +23,23 @@ def _planck_terms(T):
     """
     wl, cmf = cmfs("cie1931-2")
     lam = wl * 1e-9
-    T = np.asarray(T, dtype=float)[..., None]
-    x = C2 / (lam * T)
-    em1 = np.expm1(x)
-    with np.errstate(over="ignore", invalid="ignore"):
+    T = np.asarray(T, dtype=float)
+    # Planck's law needs 0 < T < inf: other temperatures become NaN, without warnings
+    T = np.where(np.isfinite(T) & (T > 0), T, np.nan)[..., None]
+    with np.errstate(over="ignore", invalid="ignore", divide="ignore"):
+        x = C2 / (lam * T)
+        em1 = np.expm1(x)
         M = lam**-5 / em1 * 1e-30  # scaled to keep sums near unity
         ex = em1 + 1.0
         g = x * ex / em1
         gp = ex * (em1 - x) / (em1 * em1)
-    g = np.where(np.isfinite(g), g, x)
-    gp = np.where(np.isfinite(gp), gp, 1.0)
-    M = np.where(np.isfinite(M), M, 0.0)
-    dM = M * g / T
-    d2M = M * (g * g - g - x * gp) / (T * T)
+    valid = np.isfinite(T)
+    g = np.where(np.isfinite(g) | ~valid, g, x)
+    gp = np.where(np.isfinite(gp) | ~valid, gp, 1.0)
+    M = np.where(np.isfinite(M) | ~valid, M, 0.0)
+    with np.errstate(over="ignore", invalid="ignore"):
+        dM = M * g / T
+        d2M = M * (g * g - g - x * gp) / (T * T)
     return cmf, M, dM, d2M
 
 
@@ -49,7 +53,9 @@ def planck_uv(T, derivatives: bool = False):
     X, Y, Z = np.moveaxis(M @ cmf, -1, 0)
     D = X + 15 * Y + 3 * Z
     N = np.stack([4 * X, 6 * Y], axis=-1)
-    uv = N / D[..., None]
+    with np.errstate(divide="ignore", invalid="ignore"):
+        # D is 0 only where every exponential overflowed (T far below 1 K): no chromaticity
+        uv = np.where(D[..., None] > 0, N / D[..., None], np.nan)
     if not derivatives:
         return uv
     dX, dY, dZ = np.moveaxis(dM @ cmf, -1, 0)
@@ -61,8 +67,9 @@ def planck_uv(T, derivatives: bool = False):
     Dk = D[..., None]
     dDk = dD[..., None]
     # quotient rule, first and second derivative of N/D
-    duv = (dN - uv * dDk) / Dk
-    d2uv = (d2N - 2 * duv * dDk - uv * d2D[..., None]) / Dk
+    with np.errstate(divide="ignore", invalid="ignore"):
+        duv = (dN - uv * dDk) / Dk
+        d2uv = (d2N - 2 * duv * dDk - uv * d2D[..., None]) / Dk
     return uv, duv, d2uv
 
 
