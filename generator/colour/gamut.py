@@ -81,18 +81,42 @@ def clip_convex(subject, clip):
     return np.array(out).reshape(-1, 2)
 
 
+def _hull_or_none(points):
+    """Convex hull of finite 2-D points, or None when any point is NaN or infinite."""
+    pts = np.asarray(points, dtype=float).reshape(-1, 2)
+    if not np.all(np.isfinite(pts)):
+        return None
+    return convex_hull(pts)
+
+
 def coverage(gamut, reference):
-    """Percent of the reference polygon's area inside the gamut polygon (both convex)."""
-    ref_area = polygon_area(reference)
+    """Percent of the reference gamut's area inside the spec's gamut, in 0..100.
+
+    Both are taken as the convex hulls of their points, so the order and orientation of
+    the points do not matter. A gamut that spans no area covers 0 %; a reference that
+    spans no area, or any non-finite point, gives NaN.
+    """
+    g, r = _hull_or_none(gamut), _hull_or_none(reference)
+    if g is None or r is None:
+        return float("nan")
+    ref_area = polygon_area(r)
     if ref_area <= 0:
         return float("nan")
-    inter = clip_convex(reference, convex_hull(gamut))
-    return 100.0 * max(polygon_area(inter), 0.0) / ref_area
+    if len(g) < 3:
+        return 0.0
+    inter = clip_convex(r, g)
+    return min(100.0, 100.0 * max(polygon_area(inter), 0.0) / ref_area)
 
 
 def area_ratio(gamut, reference):
-    """Percent: area of the gamut polygon over the area of the reference polygon."""
-    ref_area = polygon_area(reference)
+    """Percent: area of the gamut's convex hull over the area of the reference's hull.
+
+    A reference that spans no area, or any non-finite point, gives NaN.
+    """
+    g, r = _hull_or_none(gamut), _hull_or_none(reference)
+    if g is None or r is None:
+        return float("nan")
+    ref_area = polygon_area(r)
     if ref_area <= 0:
         return float("nan")
-    return 100.0 * abs(polygon_area(gamut)) / ref_area
+    return 100.0 * polygon_area(g) / ref_area
