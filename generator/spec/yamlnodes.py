@@ -10,7 +10,6 @@ are refused here.
 from __future__ import annotations
 
 from dataclasses import dataclass, field
-from typing import Union
 
 import yaml
 
@@ -59,7 +58,7 @@ class Map:
     inherited: dict[str, str] = field(default_factory=dict)
 
 
-Node = Union[Scalar, Seq, Map]
+Node = Scalar | Seq | Map
 
 
 class _TooBig(Exception):
