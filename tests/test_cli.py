@@ -87,9 +87,14 @@ def test_check_does_not_import_matplotlib():
     assert r.stdout.split() == ["False", "1"], r.stderr
 
 
+def test_build_exits_0_once_the_site_is_written_and_1_with_gate(tmp_path):
+    assert run("build", str(DEMO_SPECS), "-o", str(tmp_path / "a")).returncode == 0
+    assert run("build", str(DEMO_SPECS), "-o", str(tmp_path / "b"), "--gate").returncode == 1
+
+
 def test_build_summary_names_pages_diagrams_and_failing_specs(tmp_path):
     r = run("build", str(DEMO_SPECS), "-o", str(tmp_path / "out"))
-    assert r.returncode == 1, r.stderr
+    assert r.returncode == 0, r.stderr
     line = r.stdout.strip().splitlines()[-1]
     assert line.startswith("Built 6 spec pages and 18 diagrams into ")
     assert "corvinta-atlas-27-studio" in line
