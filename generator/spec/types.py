@@ -140,7 +140,7 @@ class Integer(Type):
             return v
         hint = "remove the quotes to give a number" if isinstance(node, Scalar) and not node.plain \
             and re.fullmatch(r"[-+]?[0-9]+", text) else ""
-        found = _short(text) if isinstance(node, Scalar) and node.plain and text else describe(node)
+        found = _short(text) if isinstance(node, Scalar) and node.plain and _NUMBER.match(text) else describe(node)
         problems.error(node.mark, path, f"expected {self.expected()}, found {found}", hint)
         return INVALID
 
