@@ -97,9 +97,9 @@ def chromaticity_diagram(layer: Layer, diagram: str):
                 label="white target", ls="none")
     _units(ax, layer.units, lambda xy: _to(diagram, xy))
     if diagram == "xy":
-        ax.set(xlim=(0, 0.8), ylim=(0, 0.9), xlabel="x", ylabel="y")
+        ax.set(xlim=(-0.04, 0.8), ylim=(-0.02, 0.9), xlabel="x", ylabel="y")
     else:
-        ax.set(xlim=(0, 0.65), ylim=(0, 0.65), xlabel="u'", ylabel="v'")
+        ax.set(xlim=(-0.04, 0.66), ylim=(-0.02, 0.64), xlabel="u'", ylabel="v'")
     ax.set_aspect("equal")
     ax.grid(color=PALETTE["grid"], lw=0.4)
     ax.set_title(layer.title, fontsize=10)

@@ -83,10 +83,20 @@ def value_text(row) -> str:
     return f"{v:.{d}f}{unit}"
 
 
+def shortfall_text(row) -> str:
+    """How far outside its limit a row lies, in the row's unit ('' when inside)."""
+    m = row.get("margin")
+    if m is None or m >= 0:
+        return ""
+    d = _DIGITS.get(row["quantity"], 4)
+    unit = {"%": " points", "": ""}.get(row["unit"], f" {row['unit']}")
+    return f"outside by {-m:.{max(d, 1)}f}{unit}"
+
+
 def row_view(row) -> dict:
     return {"id": row["id"], "label": row["label"], "subject": row["subject"], "sample": row["sample"],
             "limit": limit_text(row), "value": value_text(row), "verdict": row["verdict"],
-            "symbol": SYMBOL[row["verdict"]], "lot": row.get("lot", "")}
+            "symbol": SYMBOL[row["verdict"]], "lot": row.get("lot", ""), "shortfall": shortfall_text(row)}
 
 
 _ALLOWED_TAGS = {"p", "em", "strong", "code", "pre", "ul", "ol", "li", "a", "blockquote", "h3", "h4",
