@@ -28,11 +28,12 @@ def distance_to_polygon_edges(points, polygon):
     b = np.roll(a, -1, axis=0)
     ab = b - a
     L2 = (ab * ab).sum(axis=-1)
-    with np.errstate(divide="ignore", invalid="ignore"):
+    # infinite points give inf or NaN distances, never a warning
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
         t = np.clip(((p - a) * ab).sum(axis=-1) / L2, 0.0, 1.0)
-    t = np.where(L2 > 0, t, 0.0)
-    foot = a + t[..., None] * ab
-    return np.sqrt(((p - foot) ** 2).sum(axis=-1)).min(axis=-1)
+        t = np.where(L2 > 0, t, 0.0)
+        foot = a + t[..., None] * ab
+        return np.sqrt(((p - foot) ** 2).sum(axis=-1)).min(axis=-1)
 
 
 def in_ellipse(points, centre, a, b, angle_deg):
@@ -41,9 +42,11 @@ def in_ellipse(points, centre, a, b, angle_deg):
     p = np.asarray(points, dtype=float) - np.asarray(centre, dtype=float)
     th = np.deg2rad(angle_deg)
     c, s = np.cos(th), np.sin(th)
-    u = p[..., 0] * c + p[..., 1] * s
-    v = -p[..., 0] * s + p[..., 1] * c
-    return ellipse_radius(u, v, a, b) <= 1.0 + 1e-12
+    # an infinite point can give inf·0 = NaN here: NaN compares False, i.e. outside
+    with np.errstate(invalid="ignore", over="ignore"):
+        u = p[..., 0] * c + p[..., 1] * s
+        v = -p[..., 0] * s + p[..., 1] * c
+        return ellipse_radius(u, v, a, b) <= 1.0 + 1e-12
 
 
 def ellipse_radius(u, v, a, b):
