@@ -35,9 +35,10 @@ def XYZ_to_Lab(XYZ, white_XYZ):
     XYZ, w = _lab(XYZ), _lab(white_XYZ)
     with np.errstate(divide="ignore", invalid="ignore"):
         r = XYZ / w
-    fx, fy, fz = _f(r[..., 0]), _f(r[..., 1]), _f(r[..., 2])
-    # CIE 15:2004 eq. 8.4: L* = 116 f(Y/Yn) - 16, a* = 500 (f(X/Xn) - f(Y/Yn)), b* = 200 (f(Y/Yn) - f(Z/Zn))
-    return np.stack([116.0 * fy - 16.0, 500.0 * (fx - fy), 200.0 * (fy - fz)], axis=-1)
+        r = np.where(w > 0, r, np.nan)   # a white without a positive X, Y or Z defines no CIELAB
+        fx, fy, fz = _f(r[..., 0]), _f(r[..., 1]), _f(r[..., 2])
+        # CIE 15:2004 eq. 8.4: L* = 116 f(Y/Yn) - 16, a* = 500 (f(X/Xn) - f(Y/Yn)), b* = 200 (f(Y/Yn) - f(Z/Zn))
+        return np.stack([116.0 * fy - 16.0, 500.0 * (fx - fy), 200.0 * (fy - fz)], axis=-1)
 
 
 def Lab_to_XYZ(Lab, white_XYZ):
@@ -63,6 +64,11 @@ def delta_e_2000(Lab1, Lab2, kL: float = 1.0, kC: float = 1.0, kH: float = 1.0):
     branches for hues more than 180° apart and for zero chroma.
     """
     Lab1, Lab2 = np.broadcast_arrays(_lab(Lab1), _lab(Lab2))
+    with np.errstate(invalid="ignore", over="ignore"):
+        return _ciede2000(Lab1, Lab2, kL, kC, kH)
+
+
+def _ciede2000(Lab1, Lab2, kL, kC, kH):
     L1, a1, b1 = Lab1[..., 0], Lab1[..., 1], Lab1[..., 2]
     L2, a2, b2 = Lab2[..., 0], Lab2[..., 1], Lab2[..., 2]
     # Sharma eq. 2-3: mean chroma C*ab and G
