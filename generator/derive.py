@@ -10,7 +10,8 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from .colour.cct import cct_duv_from_xy
-from .colour.convert import xy_to_uv_prime
+from .colour.convert import xy_to_uv_prime, xy_to_XYZ
+from .colour.difference import XYZ_to_Lab
 from .colour.gamut import area_ratio, convex_hull, coverage, polygon_area
 from .colour.npm import inverse_npm, npm_from_primaries
 from .colour.wavelength import dominant_wavelength
@@ -58,6 +59,35 @@ def gamut_figures(primaries_xy, ref_hulls, keys) -> GamutFigures:
     return GamutFigures(hxy, huv, polygon_area(hxy), polygon_area(huv), vs)
 
 
+# Dominant wavelength of a colour without a stated reference white is taken from the
+# equal-energy white E (x = y = 1/3), as is common in LED binning.
+DOMINANT_WAVELENGTH_DEFAULT_WHITE = (1 / 3, 1 / 3)
+
+
+def colour_figures(xy, Y, reference_white, observer) -> list[dict]:
+    """Chromaticity, CIELAB (when Y and a reference white are known), dominant or
+    complementary wavelength and excitation purity of colours; xy (n, 2), Y (n,) with NaN
+    for unknown luminance factors (reference white Y = 100)."""
+    xy = np.asarray(xy, dtype=float).reshape(-1, 2)
+    Y = np.asarray(Y, dtype=float).reshape(-1)
+    uv = xy_to_uv_prime(xy)
+    white = reference_white if reference_white is not None else DOMINANT_WAVELENGTH_DEFAULT_WHITE
+    dom, comp, pur = dominant_wavelength(xy, white, observer)
+    if reference_white is not None:
+        lab = XYZ_to_Lab(xy_to_XYZ(xy, Y), xy_to_XYZ(np.array(reference_white), 100.0))
+    else:
+        lab = np.full((len(xy), 3), np.nan)
+    out = []
+    for i in range(len(xy)):
+        out.append({"x": float(xy[i, 0]), "y": float(xy[i, 1]), "u_prime": float(uv[i, 0]),
+                    "v_prime": float(uv[i, 1]), "Y": _num(Y[i]),
+                    "L": _num(lab[i, 0]), "a": _num(lab[i, 1]), "b": _num(lab[i, 2]),
+                    "dominant_wavelength_nm": _num(dom[i]), "complementary_wavelength_nm": _num(comp[i]),
+                    "excitation_purity": _num(pur[i]),
+                    "reference_white": ({"x": float(white[0]), "y": float(white[1])})})
+    return out
+
+
 def white_figures(xy) -> dict:
     """x, y, u', v', CCT and Duv for chromaticities of shape (n, 2) -> list of dicts."""
     xy = np.asarray(xy, dtype=float).reshape(-1, 2)
@@ -73,6 +103,7 @@ class UnitFigures:
     white: dict | None
     primaries: dict[str, dict]
     gamut: GamutFigures | None
+    colours: dict[str, dict] = field(default_factory=dict)
 
 
 @dataclass
@@ -84,9 +115,12 @@ class Derived:
     gamut: GamutFigures | None
     ref_hulls: dict
     units: list[UnitFigures] = field(default_factory=list)
+    colours: dict[str, dict] = field(default_factory=dict)
 
     def as_json(self) -> dict:
         d: dict = {"white": self.white, "primaries": self.primaries}
+        if self.colours:
+            d["colours"] = self.colours
         if self.npm is not None:
             d["npm"] = self.npm
             d["npm_inverse"] = self.npm_inverse
@@ -119,6 +153,12 @@ def derive(spec: Spec) -> Derived:
     if len(spec.primaries) >= 3:
         gamut = gamut_figures([p.xy for p in spec.primaries], ref_hulls, keys)
 
+    colours = {}
+    by_name = {c.name: c for c in spec.colours}
+    for c in spec.colours:
+        colours[c.name] = colour_figures([c.xy], [np.nan if c.Y is None else c.Y], c.reference_white,
+                                         spec.observer)[0]
+
     units = []
     whites = [u.white.xy for u in spec.units if u.white is not None]
     wfig = iter(white_figures(whites)) if whites else iter(())
@@ -136,5 +176,10 @@ def derive(spec: Spec) -> Derived:
         ug = None
         if names and all(n in u.primaries for n in names):
             ug = gamut_figures([u.primaries[n].xy for n in names], ref_hulls, needed)
-        units.append(UnitFigures(u.serial, uw, up, ug))
-    return Derived(white, prims, npm, npm_inv, gamut, ref_hulls, units)
+        uc = {}
+        for name, m in u.colours.items():
+            c = by_name[name]
+            uc[name] = colour_figures([m.xy], [np.nan if m.Y is None else m.Y], c.reference_white,
+                                      spec.observer)[0]
+        units.append(UnitFigures(u.serial, uw, up, ug, uc))
+    return Derived(white, prims, npm, npm_inv, gamut, ref_hulls, units, colours)

@@ -18,9 +18,14 @@ class Tolerance:
     region: tuple[XY, ...] | None = None              # polygon corners in xy
     cct: tuple[float | None, float | None] | None = None
     duv: tuple[float | None, float | None] | None = None
+    delta_e2000: tuple[float, float, float, float] | None = None   # (max, kL, kC, kH)
+    delta_e76: float | None = None
+    dominant_wavelength: tuple[float | None, float | None] | None = None   # nm
+    excitation_purity: tuple[float | None, float | None] | None = None
 
     def kinds(self) -> list[str]:
-        return [k for k in ("delta_uv", "box", "ellipse", "region", "cct", "duv")
+        return [k for k in ("delta_uv", "box", "ellipse", "region", "cct", "duv", "delta_e2000", "delta_e76",
+                            "dominant_wavelength", "excitation_purity")
                 if getattr(self, k) is not None]
 
 
@@ -38,6 +43,21 @@ class Primary:
     xy: XY
     tolerance: Tolerance
     tolerance_from: str     # "own" or "default"
+
+
+@dataclass(frozen=True)
+class Colour:
+    """An indicator, signal or brand colour. Y is the luminance factor with the reference
+    white at Y = 100 (None when the spec gives only a chromaticity)."""
+    name: str
+    xy: XY
+    Y: float | None
+    written: str
+    reference_white: XY | None
+    reference_white_written: str
+    tolerance: Tolerance
+    tolerance_from: str     # "own" or "default"
+    note: str = ""
 
 
 @dataclass(frozen=True)
@@ -75,6 +95,7 @@ class Unit:
     white: Measurement | None
     primaries: dict[str, Measurement]
     notes: str = ""
+    colours: dict[str, Measurement] = field(default_factory=dict)   # Y: luminance factor
 
 
 @dataclass
@@ -96,5 +117,6 @@ class Spec:
     gamut: list[GamutRequirement]
     units: list[Unit]
     references: dict[str, ReferenceGamut]   # every named space plus specs named by gamut rows
+    colours: list[Colour] = field(default_factory=list)
     inherited: dict[str, str] = field(default_factory=dict)  # top-level key -> ancestor id
     warnings: list = field(default_factory=list)             # Problem, severity "warning"

@@ -105,3 +105,92 @@ def test_design_targets_are_not_assessed_against_trivial_limits(spec_dir):
     rows, _ = _rows(spec_dir)
     design = sorted(k[0] for k in rows if k[1] is None)
     assert design == ["white.region"]  # region may exclude the target; box / circle / ellipse cannot
+
+
+COLOURS_SPEC = """\
+spec: 1
+id: lamps
+category: indicator
+colours:
+  reference_white: D65
+  tolerance: {delta_e2000: 3.0}
+  green:
+    target: {x: 0.1700, y: 0.7000, Y: 60}
+    tolerance:
+      delta_e2000: {max: 3.0, kL: 2}
+      delta_e76: 5.0
+      dominant_wavelength: [520, 530]
+      excitation_purity: {min: 0.7}
+      delta_uv: 0.01
+  teal:
+    target: {L: 55, a: -32, b: -8}
+  magenta:
+    target: {x: 0.40, y: 0.20, Y: 20}
+    tolerance: {dominant_wavelength: [380, 700]}
+units:
+  - serial: U1
+    colours:
+      green: {x: 0.1800, y: 0.6850, Y: 57}
+      teal: {L: 56, a: -30, b: -10}
+  - serial: U2
+    colours:
+      teal: {L: 55, a: -32, b: -8}
+"""
+
+
+def _colour_rows(spec_dir):
+    spec_dir("lamps.yaml", COLOURS_SPEC)
+    (e,), _ = evaluate(spec_dir.dir)
+    return {(r["id"], r["sample"]): r for r in e.assessment.rows}, e
+
+
+def test_colour_rows_carry_the_colour_name_as_subject(spec_dir):
+    rows, e = _colour_rows(spec_dir)
+    assert {r["subject"] for r in e.assessment.rows} == {"green", "teal", "magenta"}
+    assert sorted(k for k in rows if k[1] == "U1") == [
+        ("colours.green.delta_e2000", "U1"), ("colours.green.delta_e76", "U1"),
+        ("colours.green.delta_uv", "U1"), ("colours.green.dominant_wavelength", "U1"),
+        ("colours.green.excitation_purity", "U1"), ("colours.teal.delta_e2000", "U1")]
+
+
+def test_colour_design_rows_are_dominant_wavelength_and_purity_only(spec_dir):
+    rows, _ = _colour_rows(spec_dir)
+    assert sorted(k[0] for k in rows if k[1] is None) == [
+        "colours.green.dominant_wavelength", "colours.green.excitation_purity",
+        "colours.magenta.dominant_wavelength"]
+
+
+def test_colour_delta_e_values_agree_with_colour_science(spec_dir):
+    import colour
+    import numpy as np
+
+    rows, _ = _colour_rows(spec_dir)
+    w = colour.xy_to_XYZ([0.3127, 0.3290])
+    t = colour.XYZ_to_Lab(colour.xyY_to_XYZ([0.17, 0.70, 0.60]), [0.3127, 0.3290])
+    s = colour.XYZ_to_Lab(colour.xyY_to_XYZ([0.18, 0.685, 0.57]), [0.3127, 0.3290])
+    assert w[1] == 1.0
+    de00 = colour.difference.delta_E_CIE2000(s, t, textiles=True)   # kL = 2 [L]
+    assert rows[("colours.green.delta_e2000", "U1")]["value"] == pytest.approx(float(de00), abs=1e-9)
+    assert rows[("colours.green.delta_e2000", "U1")]["limit"] == {"max": 3.0, "kL": 2.0, "kC": 1.0, "kH": 1.0}
+    assert rows[("colours.green.delta_e76", "U1")]["value"] == pytest.approx(float(np.linalg.norm(s - t)), abs=1e-9)
+    # a CIELAB target and sample: ΔE00 of (56, -30, -10) from (55, -32, -8) against colour-science
+    de_teal = colour.difference.delta_E_CIE2000([56, -30, -10], [55, -32, -8])
+    assert rows[("colours.teal.delta_e2000", "U1")]["value"] == pytest.approx(float(de_teal), abs=1e-6)
+    assert rows[("colours.teal.delta_e2000", "U2")]["value"] == pytest.approx(0.0, abs=1e-6)
+
+
+def test_colour_dominant_wavelength_and_purity_rows(spec_dir):
+    rows, _ = _colour_rows(spec_dir)
+    dw = rows[("colours.green.dominant_wavelength", None)]
+    assert dw["unit"] == "nm" and dw["limit"]["white"] == {"x": 0.3127, "y": 0.329}
+    assert 520 < dw["value"] < 530 and dw["verdict"] == "pass"
+    assert rows[("colours.green.excitation_purity", None)]["verdict"] == "pass"
+    # U1 green at (0.18, 0.685) lies further from the locus: purity below 0.74 but above 0.7
+    assert 0.7 < rows[("colours.green.excitation_purity", "U1")]["value"] < 0.75
+
+
+def test_a_purple_colour_fails_a_dominant_wavelength_range(spec_dir):
+    rows, e = _colour_rows(spec_dir)
+    r = rows[("colours.magenta.dominant_wavelength", None)]
+    assert r["value"] is None and r["verdict"] == "fail"
+    assert e.derived.colours["magenta"]["complementary_wavelength_nm"] > 490

@@ -42,7 +42,11 @@ def test_spec_page_has_diagrams_first_then_the_compliance_table(demo_site):
 
 def test_every_diagram_is_well_formed_svg_with_the_expected_layers(demo_site):
     svgs = sorted(demo_site.glob("*/*.svg"))
-    assert len(svgs) == 3 * len(list(DEMO_SPECS.glob("*.yaml")))
+    # xy and u'v' for every spec, and the white close-up for every spec with a white
+    pages = sorted(demo_site.glob("*/index.html"))
+    with_white = [p for p in pages if 'src="white.svg"' in p.read_text(encoding="utf-8")]
+    assert len(pages) == len(list(DEMO_SPECS.glob("*.yaml")))
+    assert len(svgs) == 2 * len(pages) + len(with_white)
     for p in svgs:
         root = ET.fromstring(p.read_text(encoding="utf-8"))
         assert root.tag.endswith("svg")
@@ -57,9 +61,11 @@ def test_results_json_follows_the_documented_contract(demo_results):
         for k in ("id", "file", "revision", "status", "verdict", "derived", "requirements"):
             assert k in s
         w = s["derived"]["white"]
-        assert all(isinstance(w[k], float) for k in ("x", "y", "u_prime", "v_prime", "cct_K", "duv"))
+        # a spec of indicator colours only has no white and no gamut: both are null
+        assert w is not None or "colours" in s["derived"]
+        assert w is None or all(isinstance(w[k], float) for k in ("x", "y", "u_prime", "v_prime", "cct_K", "duv"))
         g = s["derived"]["gamut"]
-        for ref in CONTRACT_REFS:
+        for ref in CONTRACT_REFS if g is not None else ():
             for k in ("coverage_xy", "coverage_uv", "area_ratio_xy", "area_ratio_uv"):
                 assert isinstance(g["vs"][ref][k], float)
             assert 0 <= g["vs"][ref]["coverage_xy"] <= 100
@@ -72,6 +78,8 @@ def test_results_json_follows_the_documented_contract(demo_results):
             assert isinstance(r["limit"], dict)
             if r["subject"] == "gamut":
                 assert r["reference"] and r["diagram"] in ("xy", "uv")
+            if r["id"].startswith("colours."):
+                assert r["subject"] in s["derived"]["colours"]
         if any(r["verdict"] == "fail" for r in s["requirements"]):
             assert s["verdict"] == "fail"
 

@@ -335,3 +335,81 @@ def test_empty_folder(tmp_path, monkeypatch):
     assert [p.format() for p in e.value.problems] == [
         ".:1:1: expected spec files (*.yaml), found none\n"
         "    hint: run 'colourspec new specs/my-spec.yaml' for a starter spec"]
+
+
+COLOURS_HEAD = HEAD + "colours:\n"
+
+
+def test_colours_need_a_reference_white_for_cielab_targets_and_delta_e(load):
+    got = load(COLOURS_HEAD + """\
+  tolerance: {delta_e2000: 2}
+  teal:
+    target: {L: 55, a: -32, b: -8}
+  green:
+    target: {x: 0.17, y: 0.70, Y: 60}
+""")
+    assert got == [
+        "s.yaml:4:14: colours.tolerance: expected a reference_white for a ΔE limit, found none\n"
+        "    hint: CIELAB differences need the white the colours are seen against, e.g. reference_white: D65",
+        "s.yaml:6:13: colours.teal.target: expected a reference_white for a CIELAB target, found none\n"
+        "    hint: add reference_white: D65 (or the white the target was measured against) to the colour or "
+        "to the colours section",
+    ]
+
+
+def test_a_delta_e_limit_needs_a_luminance_factor(load):
+    got = load(COLOURS_HEAD + """\
+  reference_white: D65
+  green:
+    target: {x: 0.17, y: 0.70}
+    tolerance: {delta_e76: 3}
+""")
+    assert got == [
+        "s.yaml:6:13: colours.green.target: expected a luminance factor Y (or a CIELAB target) for a ΔE "
+        "limit, found only a chromaticity\n"
+        "    hint: write the target as {x, y, Y} with the reference white at Y = 100, or as {L, a, b}"]
+
+
+def test_delta_e2000_limit_keys_and_ranges_are_checked(load):
+    got = load(COLOURS_HEAD + """\
+  reference_white: D65
+  red:
+    target: {x: 0.70, y: 0.30, Y: 20}
+    tolerance: {delta_e2000: {max: 2, kq: 1}, dominant_wavelength: [630, 620], excitation_purity: [0, 2]}
+""")
+    assert got == [
+        "s.yaml:7:39: colours.red.tolerance.delta_e2000.kq: expected a known key, found unknown key 'kq'\n"
+        "    hint: known keys: max, kL, kC, kH",
+        "s.yaml:7:68: colours.red.tolerance.dominant_wavelength: expected low <= high, found [630, 620]\n"
+        "    hint: swap the two bounds",
+        "s.yaml:7:103: colours.red.tolerance.excitation_purity[1]: expected a number >= 0 and <= 1, found 2",
+    ]
+
+
+def test_unit_colours_must_name_a_colour_of_the_spec(load):
+    got = load(COLOURS_HEAD + """\
+  green:
+    target: {x: 0.17, y: 0.70}
+units:
+  - serial: A
+    colours:
+      gren: {x: 0.17, y: 0.70}
+""")
+    assert got == ["s.yaml:9:7: units[0].colours.gren: expected the name of one of the spec's colours, found "
+                   "unknown colour 'gren'\n    hint: did you mean 'green'?"]
+
+
+def test_a_cielab_target_resolves_to_xy_and_luminance_factor(load):
+    import colour
+
+    (spec,), _ = load(COLOURS_HEAD + """\
+  reference_white: D50
+  teal:
+    target: {L: 55, a: -32, b: -8}
+""")
+    c = spec.colours[0]
+    ref = colour.xyY_to_XYZ([0.34567, 0.35850, 1.0])
+    XYZ = colour.Lab_to_XYZ([55, -32, -8], [0.34567, 0.35850])
+    assert c.xy == pytest.approx(tuple(colour.XYZ_to_xy(XYZ)), abs=1e-12)
+    assert c.Y == pytest.approx(100 * XYZ[1] / ref[1], abs=1e-9)
+    assert c.reference_white == (0.34567, 0.35850) and c.reference_white_written == "D50"

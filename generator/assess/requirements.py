@@ -6,13 +6,15 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..colour.convert import delta_uv_prime, xy_to_uv_prime
+from ..colour.difference import delta_e_2000, delta_e_76
 from ..colour.region import distance_to_polygon_edges, ellipse_radius, in_polygon
 from ..derive import Derived
 from ..model import Spec, Tolerance
 from .rules import FAIL, SIMPLE, DecisionRule, combine, decide, margin
 
 UNITS = {"delta_uv": "", "cct": "K", "duv": "", "box": "", "ellipse": "", "region": "",
-         "luminance": "cd/m2", "coverage": "%", "area-ratio": "%"}
+         "luminance": "cd/m2", "coverage": "%", "area-ratio": "%", "delta_e2000": "", "delta_e76": "",
+         "dominant_wavelength": "nm", "excitation_purity": ""}
 
 
 @dataclass
@@ -85,6 +87,52 @@ def tolerance_rows(prefix, subject, sample, tol: Tolerance, target_xy, xy, rule,
     return rows
 
 
+def _lab(fig):
+    return None if fig["L"] is None or fig["a"] is None or fig["b"] is None else (fig["L"], fig["a"], fig["b"])
+
+
+def colour_rows(colour, target_fig, fig, sample, rule, design=False):
+    """Rows for a colour (an indicator, signal or brand colour) against its limits.
+
+    ``target_fig`` and ``fig`` are colour_figures() of the target and of the sample (the
+    target itself for the design row). Differences are assessed for samples only;
+    region, dominant wavelength and excitation purity also for the design target.
+    """
+    tol = colour.tolerance
+    prefix, name = f"colours.{colour.name}", colour.name
+    xy = (fig["x"], fig["y"])
+    rows = tolerance_rows(prefix, name, sample, tol, colour.xy, xy, rule, design=design)
+    if not design:
+        lab_t, lab_s = _lab(target_fig), _lab(fig)
+        if tol.delta_e2000 is not None:
+            mx, kL, kC, kH = tol.delta_e2000
+            d = None if lab_t is None or lab_s is None else float(delta_e_2000(lab_s, lab_t, kL, kC, kH))
+            rows.append(_row(f"{prefix}.delta_e2000", name, sample, "delta_e2000", d,
+                             {"max": mx, "kL": kL, "kC": kC, "kH": kH}, decide(d, None, mx, rule=rule),
+                             margin(d, None, mx), "CIEDE2000 ΔE00 from target"))
+        if tol.delta_e76 is not None:
+            d = None if lab_t is None or lab_s is None else float(delta_e_76(lab_s, lab_t))
+            rows.append(_row(f"{prefix}.delta_e76", name, sample, "delta_e76", d, {"max": tol.delta_e76},
+                             decide(d, None, tol.delta_e76, rule=rule), margin(d, None, tol.delta_e76),
+                             "CIE 1976 ΔE*ab from target"))
+    white = fig["reference_white"]
+    if tol.dominant_wavelength is not None:
+        lo, hi = tol.dominant_wavelength
+        d = fig["dominant_wavelength_nm"]
+        # a colour on the purple side has no dominant wavelength, so no range of it can hold
+        verdict = FAIL if d is None and fig["complementary_wavelength_nm"] is not None else decide(d, lo, hi, rule=rule)
+        rows.append(_row(f"{prefix}.dominant_wavelength", name, sample, "dominant_wavelength", d,
+                         dict({k: v for k, v in (("min", lo), ("max", hi)) if v is not None}, white=white),
+                         verdict, margin(d, lo, hi), "dominant wavelength"))
+    if tol.excitation_purity is not None:
+        lo, hi = tol.excitation_purity
+        e = fig["excitation_purity"]
+        rows.append(_row(f"{prefix}.excitation_purity", name, sample, "excitation_purity", e,
+                         dict({k: v for k, v in (("min", lo), ("max", hi)) if v is not None}, white=white),
+                         decide(e, lo, hi, rule=rule), margin(e, lo, hi), "excitation purity"))
+    return rows
+
+
 def gamut_rows(spec: Spec, figures, sample, rule):
     rows = []
     for g in spec.gamut:
@@ -118,6 +166,9 @@ def assess(spec: Spec, derived: Derived, rule: DecisionRule = SIMPLE) -> Assessm
     for p in spec.primaries:
         rows += tolerance_rows(f"primaries.{p.name}", p.name, None, p.tolerance, p.xy, p.xy, rule, design=True)
     rows += gamut_rows(spec, derived.gamut, None, rule) if spec.gamut else []
+    for c in spec.colours:
+        fig = derived.colours[c.name]
+        rows += colour_rows(c, fig, fig, None, rule, design=True)
 
     units = []
     targets = {p.name: p for p in spec.primaries}
@@ -132,6 +183,10 @@ def assess(spec: Spec, derived: Derived, rule: DecisionRule = SIMPLE) -> Assessm
             urows += tolerance_rows(f"primaries.{name}", name, u.serial, p.tolerance, p.xy, m.xy, rule)
         if uf.gamut is not None:
             urows += gamut_rows(spec, uf.gamut, u.serial, rule)
+        colour_by_name = {c.name: c for c in spec.colours}
+        for name, fig in uf.colours.items():
+            c = colour_by_name[name]
+            urows += colour_rows(c, derived.colours[name], fig, u.serial, rule)
         for r in urows:
             r["lot"] = u.lot
         verdict = combine(r["verdict"] for r in urows) if urows else "pass"

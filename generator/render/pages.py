@@ -52,7 +52,8 @@ def fmt(v, digits: int = 4) -> str:
 
 
 _DIGITS = {"cct": 0, "duv": 4, "delta_uv": 4, "box": 4, "ellipse": 2, "region": 4,
-           "luminance": 1, "coverage": 1, "area-ratio": 1}
+           "luminance": 1, "coverage": 1, "area-ratio": 1, "delta_e2000": 2, "delta_e76": 2,
+           "dominant_wavelength": 1, "excitation_purity": 3}
 
 
 def limit_text(row) -> str:
@@ -65,6 +66,8 @@ def limit_text(row) -> str:
     if row["quantity"] == "region":
         return f"inside a {len(lim['polygon'])}-corner xy region"
     lo, hi = lim.get("min"), lim.get("max")
+    if row["quantity"] == "delta_e2000" and (lim["kL"], lim["kC"], lim["kH"]) != (1.0, 1.0, 1.0):
+        return f"≤ {hi:.{d}f} (kL {lim['kL']:g}, kC {lim['kC']:g}, kH {lim['kH']:g})"
     if lo is not None and hi is not None:
         return f"{lo:.{d}f} to {hi:.{d}f}{unit}"
     if lo is not None:
@@ -114,7 +117,17 @@ def render_markdown(text: str) -> str:
 
 
 def methods(spec) -> list[tuple[str, str]]:
-    return [
+    extra = []
+    if spec.colours:
+        extra = [
+            ("Colour differences", "CIELAB per CIE 15:2004 §8.2.1 relative to each colour's reference white "
+                                   "(white Y = 100, no chromatic adaptation); CIEDE2000 per CIE 142-2001 as "
+                                   "written out by Sharma, Wu & Dalal (2005), with the stated kL, kC, kH; "
+                                   "ΔE*ab per CIE 15:2004 §8.2.1"),
+            ("Colours: dominant wavelength", "CIE 15:2004 §9.1, relative to each colour's reference white, or "
+                                             "to the equal-energy white E (x = y = 1/3) where none is stated"),
+        ]
+    return extra + [
         ("Observer", OBSERVERS[spec.observer][1] + ", colour-matching functions at 1 nm, 360-830 nm "
                      "(CIE 018:2019)"),
         ("CCT and Duv", CCT_METHOD + "; Planck's law with c2 = 1.4388e-2 m·K; Duv in CIE 1960 uv, "

@@ -47,22 +47,26 @@ def layer_for(e, which: str) -> F.Layer:
     if spec.white is not None:
         tol += [t for t in _tolerance_shapes(spec.white.tolerance, spec.white.xy, "white")
                 if "CCT" not in t[0]]
+    for c in spec.colours:
+        tol += _tolerance_shapes(c.tolerance, c.xy, c.name)
     units = []
     for u in spec.units:
         for name, m in u.primaries.items():
+            units.append((u.serial, m.xy, unit_verdicts[u.serial]))
+        for name, m in u.colours.items():
             units.append((u.serial, m.xy, unit_verdicts[u.serial]))
         if u.white is not None:
             units.append((u.serial, u.white.xy, unit_verdicts[u.serial]))
     gamut = e.derived.gamut.hull_xy if e.derived.gamut is not None else None
     title = "CIE 1931 xy chromaticity diagram" if which == "xy" else "CIE 1976 u'v' chromaticity diagram"
-    return F.Layer(title, gamut, [(p.name, p.xy) for p in spec.primaries],
+    return F.Layer(title, gamut, [(p.name, p.xy) for p in spec.primaries] + [(c.name, c.xy) for c in spec.colours],
                    spec.white.xy if spec.white else None, refs, tol, units, spec.observer)
 
 
 def _figures(e) -> list[dict]:
     out = []
     spec = e.spec
-    if spec.primaries or spec.white:
+    if spec.primaries or spec.white or spec.colours:
         for diag, name in (("xy", "xy.svg"), ("uv", "uv.svg")):
             fig, _ = F.chromaticity_diagram(layer_for(e, diag), diag)
             out.append({"file": name, "svg": F.save_svg(fig),
@@ -107,6 +111,17 @@ def spec_context(e, figs) -> dict:
                          "cov_xy": fmt(v["coverage_xy"], 1), "cov_uv": fmt(v["coverage_uv"], 1),
                          "ratio_xy": fmt(v["area_ratio_xy"], 1), "ratio_uv": fmt(v["area_ratio_uv"], 1)}
                         for k, v in sorted(d.gamut.vs.items())]}
+    colours = []
+    for c in spec.colours:
+        f = d.colours[c.name]
+        colours.append({"name": c.name, "written": c.written, "note": c.note, "x": fmt(f["x"]), "y": fmt(f["y"]),
+                        "Y": fmt(f["Y"], 2), "L": fmt(f["L"], 2), "a": fmt(f["a"], 2), "b": fmt(f["b"], 2),
+                        "dominant": fmt(f["dominant_wavelength_nm"], 1),
+                        "complementary": fmt(f["complementary_wavelength_nm"], 1),
+                        "purity": fmt(f["excitation_purity"], 3),
+                        "white": c.reference_white_written or "E (dominant wavelength only)",
+                        "limits": ", ".join(c.tolerance.kinds()) + ("" if c.tolerance_from == "own"
+                                                                    else " (section default)")})
     npm = [[fmt(x, 6) for x in row] for row in d.npm] if d.npm else None
     npm_inv = [[fmt(x, 6) for x in row] for row in d.npm_inverse] if d.npm_inverse else None
     return {
@@ -124,7 +139,7 @@ def spec_context(e, figs) -> dict:
                   "indeterminate": "?"}[u["verdict"]]) for u in a.units],
         "unit_rows": [r for r in rows if r["sample"] is not None],
         "lots": a.lots,
-        "white": white, "primaries": prims, "gamut": gamut, "npm": npm, "npm_inverse": npm_inv,
+        "white": white, "primaries": prims, "colours": colours, "gamut": gamut, "npm": npm, "npm_inverse": npm_inv,
         "notes_html": render_markdown(spec.notes) if spec.notes else "",
         "methods": methods(spec),
         "caution": CAUTION if spec.category in CAUTION_CATEGORIES else "",

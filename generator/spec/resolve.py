@@ -6,14 +6,15 @@ from __future__ import annotations
 import numpy as np
 
 from ..colour.cct import xy_from_cct_duv
-from ..colour.convert import XYZ_to_xy, uv_prime_to_xy
+from ..colour.convert import XYZ_to_xy, uv_prime_to_xy, xy_to_XYZ
+from ..colour.difference import Lab_to_XYZ
 from ..colour.gamut import convex_hull, polygon_area
 from ..colour.region import in_polygon
 from ..colour.wavelength import outside_locus_distance
 from ..data import ILLUMINANTS, REFERENCE_SPACES
-from ..model import GamutRequirement, Measurement, Primary, ReferenceGamut, Spec, Tolerance, Unit, White
+from ..model import Colour, GamutRequirement, Measurement, Primary, ReferenceGamut, Spec, Tolerance, Unit, White
 from .problems import Problems, did_you_mean
-from .schema import RESERVED_PRIMARY_NAMES, UNIT_KEYS
+from .schema import RESERVED_COLOUR_NAMES, RESERVED_PRIMARY_NAMES, UNIT_KEYS
 from .yamlnodes import Map, Mark, Node, Seq
 
 # Published primaries on the locus (BT.2020, DCI-P3 red) fall up to ~3e-4 outside the
@@ -56,6 +57,11 @@ def _tolerance(v: dict | None) -> Tolerance:
         region=tuple(v["region"]) if "region" in v else None,
         cct=v.get("cct"),
         duv=v.get("duv"),
+        delta_e2000=((v["delta_e2000"]["max"], v["delta_e2000"].get("kL", 1.0), v["delta_e2000"].get("kC", 1.0),
+                      v["delta_e2000"].get("kH", 1.0)) if "delta_e2000" in v else None),
+        delta_e76=v.get("delta_e76"),
+        dominant_wavelength=v.get("dominant_wavelength"),
+        excitation_purity=v.get("excitation_purity"),
     )
 
 
@@ -120,9 +126,11 @@ def _written(v: dict) -> str:
     if f == "name":
         return v["name"]
     if f == "xy":
-        return f"x {v['x']:g}, y {v['y']:g}"
+        return f"x {v['x']:g}, y {v['y']:g}" + (f", Y {v['Y']:g}" if "Y" in v else "")
     if f == "uv":
         return f"u' {v['u_prime']:g}, v' {v['v_prime']:g}"
+    if f == "Lab":
+        return f"L* {v['L']:g}, a* {v['a']:g}, b* {v['b']:g}"
     if f == "cct":
         return f"CCT {v['cct']:g} K, Duv {v.get('duv', 0.0):+g}"
     return "XYZ"
@@ -190,6 +198,10 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems)
         gamut.append(GamutRequirement(i, ref, g["metric"], g["diagram"], g.get("min"), g.get("max"),
                                       g.get("note", "")))
 
+    colours = _colours(r, v.get("colours"), observer) if "colours" in v else []
+    colour_by_name = {c.name: c for c in colours}
+    declared_colours = [k for k in v.get("colours", {}) if k not in RESERVED_COLOUR_NAMES]
+
     units = []
     names = [p.name for p in primaries]
     seen_serials: dict[str, int] = {}
@@ -213,7 +225,21 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems)
             mm = _measure(r, m, ["units", i, key], observer)
             if mm is not None:
                 prim_m[key] = mm
-        units.append(Unit(serial, u.get("lot", ""), u.get("supplier", ""), white_m, prim_m, u.get("notes", "")))
+        col_m = {}
+        for cname, m in (u.get("colours") or {}).items():
+            cpath = ["units", i, "colours", cname]
+            c = colour_by_name.get(cname)
+            if c is None:
+                if cname not in declared_colours:   # a declared colour that failed is reported already
+                    r.error(cpath, f"expected the name of one of the spec's colours, found unknown colour "
+                            f"'{cname}'", did_you_mean(cname, declared_colours)
+                            or "colours: " + (", ".join(declared_colours) or "none"), key=True)
+                continue
+            mm = _measure_colour(r, c, m, cpath, observer)
+            if mm is not None:
+                col_m[cname] = mm
+        units.append(Unit(serial, u.get("lot", ""), u.get("supplier", ""), white_m, prim_m, u.get("notes", ""),
+                          col_m))
 
     if not r.ok:
         return None
@@ -223,7 +249,7 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems)
         family=v.get("family", ""), category=v.get("category", "display"),
         revision=v.get("revision", ""), status=v.get("status", "draft"), observer=observer,
         extends=v.get("extends", ""), owner=v.get("owner", ""), notes=v.get("notes", ""),
-        white=white, primaries=primaries, gamut=gamut, units=units, references=references,
+        white=white, primaries=primaries, gamut=gamut, units=units, references=references, colours=colours,
         inherited=dict(node.inherited), warnings=warnings)
 
 
@@ -279,4 +305,81 @@ def _measure(r: _Resolver, m: dict | None, path, observer) -> Measurement | None
     if d is None:
         return None
     Y = m.get("Y")
+    return Measurement(xy, Y, d)
+
+
+def _needs_lab(tol: Tolerance) -> bool:
+    return tol.delta_e2000 is not None or tol.delta_e76 is not None
+
+
+def _colours(r: _Resolver, cv: dict, observer) -> list[Colour]:
+    """The colours section: targets to xy (and luminance factor), reference whites, limits."""
+    out = []
+    section_white = None
+    if "reference_white" in cv:
+        section_white = r.xy_of(cv["reference_white"], ["colours", "reference_white"])
+    default_tol = cv.get("tolerance")
+    for name, c in cv.items():
+        if name in RESERVED_COLOUR_NAMES:
+            continue
+        path = ["colours", name]
+        own_white = "reference_white" in c
+        white = r.xy_of(c["reference_white"], path + ["reference_white"]) if own_white else section_white
+        white_written = _written(c["reference_white"] if own_white else cv["reference_white"]) \
+            if (own_white or "reference_white" in cv) else ""
+        own = c.get("tolerance")
+        tol = _tolerance(own if own is not None else default_tol)
+        t = c["target"]
+        if t["form"] == "Lab":
+            if white is None:
+                r.error(path + ["target"], "expected a reference_white for a CIELAB target, found none",
+                        "add reference_white: D65 (or the white the target was measured against) to the "
+                        "colour or to the colours section")
+                continue
+            XYZ = Lab_to_XYZ([t["L"], t["a"], t["b"]], xy_to_XYZ(np.array(white), 100.0))
+            xy = tuple(float(c_) for c_ in XYZ_to_xy(XYZ))
+            Y = float(XYZ[1])
+        else:
+            xy = r.xy_of(t, path + ["target"])
+            Y = t.get("Y")
+        if xy is None or r.physical(xy, path + ["target"], observer) is None:
+            continue
+        if _needs_lab(tol):
+            tpath = path + ["tolerance"] if own is not None else ["colours", "tolerance"]
+            if white is None:
+                r.error(tpath, "expected a reference_white for a ΔE limit, found none",
+                        "CIELAB differences need the white the colours are seen against, e.g. "
+                        "reference_white: D65")
+                continue
+            if Y is None:
+                r.error(path + ["target"], "expected a luminance factor Y (or a CIELAB target) for a ΔE limit, "
+                        "found only a chromaticity", "write the target as {x, y, Y} with the reference white "
+                        "at Y = 100, or as {L, a, b}")
+                continue
+        out.append(Colour(name, xy, Y, _written(t), white, white_written, tol,
+                          "own" if own is not None else "default", c.get("note", "")))
+    return out
+
+
+def _measure_colour(r: _Resolver, c: Colour, m: dict, path, observer) -> Measurement | None:
+    if m["form"] == "Lab":
+        if c.reference_white is None:
+            r.error(path, "expected a reference_white for a CIELAB measurement, found none",
+                    "add reference_white to the colour or to the colours section")
+            return None
+        XYZ = Lab_to_XYZ([m["L"], m["a"], m["b"]], xy_to_XYZ(np.array(c.reference_white), 100.0))
+        xy = tuple(float(v) for v in XYZ_to_xy(XYZ))
+        Y = float(XYZ[1])
+    else:
+        xy = r.xy_of(m, path)
+        if xy is None:
+            return None
+        Y = m.get("Y")
+    d = r.physical(xy, path, observer, measured=True)
+    if d is None:
+        return None
+    if _needs_lab(c.tolerance) and Y is None:
+        r.error(path, "expected a luminance factor Y (or CIELAB {L, a, b}) for a colour with a ΔE limit, "
+                "found only a chromaticity", "write the measurement as {x, y, Y} with the reference white at Y = 100")
+        return None
     return Measurement(xy, Y, d)

@@ -12,7 +12,8 @@ from .yamlnodes import Map
 SLUG = r"[a-z0-9][a-z0-9-]*"
 NAME = r"[A-Za-z][A-Za-z0-9_-]*"
 RESERVED_PRIMARY_NAMES = ("tolerance",)
-UNIT_KEYS = ("serial", "lot", "supplier", "white", "notes")
+UNIT_KEYS = ("serial", "lot", "supplier", "white", "notes", "colours")
+RESERVED_COLOUR_NAMES = ("tolerance", "reference_white")
 
 
 def _unit_interval(desc):
@@ -93,9 +94,16 @@ def _limits(node, path, problems):
     return v
 
 
-def _forms(extra: dict[str, Field], names: bool, cct: bool, xyz: bool) -> dict[str, Record]:
+def _forms(extra: dict[str, Field], names: bool, cct: bool, xyz: bool, lab: bool = False) -> dict[str, Record]:
     forms = {"xy": Record({"x": _X, "y": _Y, **extra}),
              "uv": Record({"u_prime": _U, "v_prime": _V, **extra})}
+    if lab:
+        lab_extra = {k: f for k, f in extra.items() if k != "Y"}
+        forms["Lab"] = Record({
+            "L": Field(Number("CIELAB lightness L*", minimum=0.0, maximum=100.0), True),
+            "a": Field(Number("CIELAB a* (red-green)", minimum=-500.0, maximum=500.0), True),
+            "b": Field(Number("CIELAB b* (yellow-blue)", minimum=-500.0, maximum=500.0), True),
+            **lab_extra})
     if cct:
         forms["cct"] = Record({"cct": _CCT, "duv": _DUV, **extra})
     if xyz:
@@ -106,12 +114,12 @@ def _forms(extra: dict[str, Field], names: bool, cct: bool, xyz: bool) -> dict[s
 
 
 def chromaticity(description: str, *, extra: dict[str, Field] | None = None, names: bool = False,
-                 cct: bool = False, xyz: bool = False) -> Custom:
+                 cct: bool = False, xyz: bool = False, lab: bool = False) -> Custom:
     """A chromaticity in one of its written forms; returns {'form': ..., coordinates..., extras...}."""
     extra = extra or {}
-    forms = _forms(extra, names, cct, xyz)
+    forms = _forms(extra, names, cct, xyz, lab)
     written = ["{x, y}", "{u_prime, v_prime}"] + (["{cct, duv}"] if cct else []) + (
-        ["{X, Y, Z}"] if xyz else [])
+        ["{X, Y, Z}"] if xyz else []) + (["{L, a, b}"] if lab else [])
     if names:
         written.insert(0, "a named illuminant")
 
@@ -124,7 +132,8 @@ def chromaticity(description: str, *, extra: dict[str, Field] | None = None, nam
             return INVALID
         keys = set(node.items)
         form = ("xy" if keys & {"x", "y"} else "uv" if keys & {"u_prime", "v_prime"}
-                else "cct" if cct and "cct" in keys else "XYZ" if xyz and keys & {"X", "Z"} else None)
+                else "cct" if cct and "cct" in keys else "XYZ" if xyz and keys & {"X", "Z"}
+                else "Lab" if lab and keys & {"L", "a", "b"} else None)
         if form is None:
             problems.error(node.mark, path,
                            f"expected {' or '.join(written)}, found keys {', '.join(sorted(keys)) or 'none'}",
@@ -197,15 +206,86 @@ GAMUT_REQUIREMENT.expects = "a gamut requirement {reference, metric, diagram, mi
 MEASURED = chromaticity("a measured chromaticity, with luminance Y in cd/m² where known",
                         extra={"Y": _LUM}, xyz=True)
 
+def _delta_e2000(node, path, problems):
+    if isinstance(node, Map):
+        return _DELTA_E2000_RECORD.check(node, path, problems)
+    v = Number(exclusive_minimum=0.0).check(node, path, problems)
+    return INVALID if v is INVALID else {"max": v}
+
+
+_DELTA_E2000_RECORD = Record({
+    "max": Field(Number("largest allowed CIEDE2000 difference", exclusive_minimum=0.0), True),
+    "kL": Field(Number("parametric factor for lightness (1 for reference conditions)", exclusive_minimum=0.0)),
+    "kC": Field(Number("parametric factor for chroma (1 for reference conditions)", exclusive_minimum=0.0)),
+    "kH": Field(Number("parametric factor for hue (1 for reference conditions)", exclusive_minimum=0.0)),
+}, "a CIEDE2000 limit with parametric factors")
+
+DELTA_E2000 = Custom(_delta_e2000,
+                     {"oneOf": [{"type": "number", "exclusiveMinimum": 0}, _DELTA_E2000_RECORD.json_schema()]},
+                     "largest CIEDE2000 difference ΔE00 from the target (CIE 142-2001), a number or "
+                     "{max, kL, kC, kH}; needs a luminance factor and a reference white",
+                     "a number > 0 or {max, kL, kC, kH}")
+
+
+def _colour_tolerance() -> Record:
+    base = _tolerance(white=False)
+    return Record({
+        **base.fields,
+        "delta_e2000": Field(DELTA_E2000, description=DELTA_E2000.description),
+        "delta_e76": Field(Number("largest CIE 1976 ΔE*ab from the target (CIE 15:2004 §8.2.1); needs a "
+                                  "luminance factor and a reference white", exclusive_minimum=0.0)),
+        "dominant_wavelength": Field(Range("inclusive dominant-wavelength range, nm (CIE 15:2004 §9.1), "
+                                           "relative to the reference white (equal-energy E if none)",
+                                           bound=Number(minimum=360.0, maximum=830.0))),
+        "excitation_purity": Field(Range("inclusive excitation-purity range, 0-1 (CIE 15:2004 §9.1)",
+                                         bound=Number(minimum=0.0, maximum=1.0))),
+    }, "limits on a colour; every listed limit must hold")
+
+
+COLOUR_TOLERANCE_FULL = _colour_tolerance()
+_Y_FACTOR = Field(Number("luminance factor Y, with the reference white at Y = 100", minimum=0.0))
+REFERENCE_WHITE = chromaticity("the reference white for CIELAB and dominant wavelength", names=True)
+
+COLOUR = Record({
+    "target": Field(chromaticity("a colour's target", extra={"Y": _Y_FACTOR}, lab=True), True,
+                    "{x, y}, {x, y, Y} (Y: luminance factor, reference white Y = 100), "
+                    "{u_prime, v_prime} or CIELAB {L, a, b}"),
+    "tolerance": Field(COLOUR_TOLERANCE_FULL, description="this colour's own limits, replacing the default"),
+    "reference_white": Field(REFERENCE_WHITE, description="this colour's reference white, replacing the "
+                             "section's: a named illuminant or {x, y}"),
+    "note": Field(Text("what the colour is for")),
+}, "an indicator, signal or brand colour: target, reference white and limits")
+
+COLOURS = Record({
+    "reference_white": Field(REFERENCE_WHITE, description="reference white for every colour: a named "
+                             "illuminant or {x, y}; needed for CIELAB targets and ΔE limits"),
+    "tolerance": Field(COLOUR_TOLERANCE_FULL, description="default limits for every colour"),
+}, "indicator, signal or brand colours by name", extra=COLOUR, extra_key=NAME,
+    extra_help="any other key names a colour, e.g. status-green: {target: {x: 0.17, y: 0.70}}",
+    expects="a mapping of colours by name, e.g. status-green: {target: {x: 0.17, y: 0.70}}")
+
+COLOUR_SAMPLE = chromaticity("a measured colour: {x, y, Y} with Y the luminance factor (reference white "
+                             "Y = 100), {u_prime, v_prime} or CIELAB {L, a, b}",
+                             extra={"Y": _Y_FACTOR}, lab=True)
+
+
+UNIT_COLOURS = Record({}, "measured colours by name", extra=COLOUR_SAMPLE, extra_key=NAME,
+                      extra_help="keys are the names of the spec's colours",
+                      expects="a mapping of measured colours by name")
+
 UNIT = Record({
     "serial": Field(Text("the unit's serial number"), True),
     "lot": Field(Text("the production lot")),
     "supplier": Field(Text("who made and measured the unit")),
     "white": Field(MEASURED, description="measured white, {x, y, Y}"),
     "notes": Field(Text("free text about the unit")),
+    "colours": Field(UNIT_COLOURS,
+                     description="measured colours by the name of the spec's colours: {x, y, Y} "
+                                 "with Y the luminance factor (reference white Y = 100) or {L, a, b}"),
 }, "one measured unit; other keys are its measured primaries by name",
     extra=MEASURED, extra_key=NAME,
     extra_help="other keys are measured primaries and must match a primary's name")
+
 
 SPEC = Record({
     "$schema": Field(Text("address of the editor JSON Schema (ignored by the tool)")),
@@ -229,5 +309,6 @@ SPEC = Record({
     "primaries": Field(PRIMARIES, description=PRIMARIES.description),
     "gamut": Field(ListOf(GAMUT_REQUIREMENT, "requirements on the gamut"),
                    description="requirements on the gamut of the primaries"),
+    "colours": Field(COLOURS, description=COLOURS.description),
     "units": Field(ListOf(UNIT, "measured units"), description="measured units, inline"),
 }, "a colour specification, format version 1")
