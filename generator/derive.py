@@ -12,6 +12,7 @@ import numpy as np
 from .colour.cct import cct_duv_from_xy
 from .colour.convert import xy_to_uv_prime, xy_to_XYZ
 from .colour.difference import XYZ_to_Lab
+from .colour.spectrum import centroid_wavelength, fwhm, luminance, peak_wavelength, spectrum_XYZ
 from .colour.gamut import area_ratio, convex_hull, coverage, polygon_area
 from .colour.npm import inverse_npm, npm_from_primaries
 from .colour.wavelength import dominant_wavelength
@@ -88,6 +89,29 @@ def colour_figures(xy, Y, reference_white, observer) -> list[dict]:
     return out
 
 
+def spectrum_figures(sd, observer) -> dict:
+    """XYZ, chromaticity, luminance (radiance spectra), peak, centroid and FWHM of a 1 nm
+    spectrum; CCT and Duv for whites."""
+    XYZ = spectrum_XYZ(sd.wavelengths, sd.values, observer)
+    radiance = sd.scale == "radiance"
+    if radiance:
+        XYZ_out = XYZ * (luminance(XYZ) / XYZ[1])   # absolute: Y in cd/m²
+    else:
+        XYZ_out = XYZ / XYZ[1] * 100.0              # relative: Y = 100
+    f = white_figures([XYZ[:2] / XYZ.sum()])[0]
+    out = {"label": sd.label, "sample": sd.sample, "source": sd.source, "sampling": sd.sampling,
+           "interpolation": sd.interpolation, "scale": sd.scale,
+           "X": float(XYZ_out[0]), "Y": float(XYZ_out[1]), "Z": float(XYZ_out[2]),
+           "x": f["x"], "y": f["y"], "u_prime": f["u_prime"], "v_prime": f["v_prime"],
+           "luminance_cd_m2": float(XYZ_out[1]) if radiance else None,
+           "peak_wavelength_nm": _num(peak_wavelength(sd.wavelengths, sd.values)),
+           "centroid_wavelength_nm": _num(centroid_wavelength(sd.wavelengths, sd.values)),
+           "fwhm_nm": _num(fwhm(sd.wavelengths, sd.values))}
+    if sd.is_white:
+        out["cct_K"], out["duv"] = f["cct_K"], f["duv"]
+    return out
+
+
 def white_figures(xy) -> dict:
     """x, y, u', v', CCT and Duv for chromaticities of shape (n, 2) -> list of dicts."""
     xy = np.asarray(xy, dtype=float).reshape(-1, 2)
@@ -116,11 +140,14 @@ class Derived:
     ref_hulls: dict
     units: list[UnitFigures] = field(default_factory=list)
     colours: dict[str, dict] = field(default_factory=dict)
+    spectra: dict[str, dict] = field(default_factory=dict)
 
     def as_json(self) -> dict:
         d: dict = {"white": self.white, "primaries": self.primaries}
         if self.colours:
             d["colours"] = self.colours
+        if self.spectra:
+            d["spectra"] = self.spectra
         if self.npm is not None:
             d["npm"] = self.npm
             d["npm_inverse"] = self.npm_inverse
@@ -182,4 +209,5 @@ def derive(spec: Spec) -> Derived:
             uc[name] = colour_figures([m.xy], [np.nan if m.Y is None else m.Y], c.reference_white,
                                       spec.observer)[0]
         units.append(UnitFigures(u.serial, uw, up, ug, uc))
-    return Derived(white, prims, npm, npm_inv, gamut, ref_hulls, units, colours)
+    spectra = {sd.key: spectrum_figures(sd, spec.observer) for sd in spec.spectra}
+    return Derived(white, prims, npm, npm_inv, gamut, ref_hulls, units, colours, spectra)

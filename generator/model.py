@@ -35,6 +35,7 @@ class White:
     written: str            # how the spec gave it, e.g. "D65" or "CCT 6500 K, Duv 0.003"
     tolerance: Tolerance
     luminance: dict         # any of target / min / max, cd/m²
+    Y: float | None = None  # luminance of a target given as a radiance spectrum, cd/m²
 
 
 @dataclass(frozen=True)
@@ -43,6 +44,21 @@ class Primary:
     xy: XY
     tolerance: Tolerance
     tolerance_from: str     # "own" or "default"
+
+
+@dataclass(frozen=True)
+class SpectrumData:
+    """A spectrum given where a chromaticity is accepted, already on a 1 nm grid."""
+    key: str                 # where it was given, e.g. "white", "primaries.red", "units[0].red"
+    label: str               # for legends, e.g. "red", "unit A0001 white"
+    wavelengths: object      # np.ndarray, whole nm, 1 nm apart
+    values: object           # np.ndarray
+    interpolation: str       # "none", "sprague" or "cubic-spline" (CIE 167:2005)
+    sampling: str            # how it was measured, e.g. "380-780 nm at 5 nm" or "irregular, 41 points"
+    source: str              # "inline" or "file.csv, column red"
+    scale: str               # "relative" or "radiance" (W·sr⁻¹·m⁻²·nm⁻¹)
+    is_white: bool = False
+    sample: str | None = None   # the unit's serial for a measured spectrum
 
 
 @dataclass(frozen=True)
@@ -118,5 +134,6 @@ class Spec:
     units: list[Unit]
     references: dict[str, ReferenceGamut]   # every named space plus specs named by gamut rows
     colours: list[Colour] = field(default_factory=list)
+    spectra: list[SpectrumData] = field(default_factory=list)
     inherited: dict[str, str] = field(default_factory=dict)  # top-level key -> ancestor id
     warnings: list = field(default_factory=list)             # Problem, severity "warning"

@@ -46,7 +46,9 @@ def test_every_diagram_is_well_formed_svg_with_the_expected_layers(demo_site):
     pages = sorted(demo_site.glob("*/index.html"))
     with_white = [p for p in pages if 'src="white.svg"' in p.read_text(encoding="utf-8")]
     assert len(pages) == len(list(DEMO_SPECS.glob("*.yaml")))
-    assert len(svgs) == 2 * len(pages) + len(with_white)
+    with_spectra = [p for p in pages if 'src="spectra.svg"' in p.read_text(encoding="utf-8")]
+    assert with_spectra
+    assert len(svgs) == 2 * len(pages) + len(with_white) + len(with_spectra)
     for p in svgs:
         root = ET.fromstring(p.read_text(encoding="utf-8"))
         assert root.tag.endswith("svg")

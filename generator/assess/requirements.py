@@ -162,7 +162,8 @@ def assess(spec: Spec, derived: Derived, rule: DecisionRule = SIMPLE) -> Assessm
     if spec.white is not None:
         rows += tolerance_rows("white", "white", None, spec.white.tolerance, spec.white.xy, spec.white.xy,
                                rule, design=True, white=derived.white)
-        rows += luminance_row(spec, spec.white.luminance.get("target"), None, rule)
+        # the design white's luminance: the stated target, else that of a radiance spectrum
+        rows += luminance_row(spec, spec.white.luminance.get("target", spec.white.Y), None, rule)
     for p in spec.primaries:
         rows += tolerance_rows(f"primaries.{p.name}", p.name, None, p.tolerance, p.xy, p.xy, rule, design=True)
     rows += gamut_rows(spec, derived.gamut, None, rule) if spec.gamut else []

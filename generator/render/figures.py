@@ -191,3 +191,33 @@ def cct_duv_quad_xy(cct, duv, n: int = 24):
     lower = uv_from_cct_duv(T, d0)
     upper = uv_from_cct_duv(T[::-1], d1)
     return uv1960_to_xy(np.vstack([lower, upper]))
+
+
+SPECTRUM_COLOURS = ("#0b57d0", "#137333", "#b3261e", "#6b6b6b", "#8e24aa", "#00796b", "#ad5700", "#5c6bc0")
+
+
+def spectra_plot(series, observer_title: str):
+    """Spectra normalised to their own peak: ``series`` of (label, wavelengths, values,
+    is_unit); design spectra solid, measured units thin and dashed."""
+    fig, ax = plt.subplots(figsize=(7.2, 3.6))
+    design = [s for s in series if not s[3]]
+    colour_of = {label: SPECTRUM_COLOURS[i % len(SPECTRUM_COLOURS)] for i, (label, *_rest) in enumerate(design)}
+    k = len(design)
+    for label, wl, v, is_unit in series:
+        v = np.asarray(v, dtype=float)
+        peak = np.nanmax(v)
+        if not peak > 0:
+            continue
+        c = colour_of.get(label.split(" ", 1)[-1]) if is_unit else colour_of[label]
+        if c is None:
+            c = SPECTRUM_COLOURS[k % len(SPECTRUM_COLOURS)]
+            k += 1
+        ax.plot(wl, v / peak, color=c, lw=0.7 if is_unit else 1.5, ls=(0, (3, 2)) if is_unit else "-",
+                label=None if is_unit else label, zorder=2 if is_unit else 3)
+    if any(s[3] for s in series):
+        ax.plot([], [], color="#444444", lw=0.7, ls=(0, (3, 2)), label="measured units")
+    ax.set(xlim=(360, 830), ylim=(0, 1.08), xlabel="wavelength (nm)", ylabel="relative to own peak")
+    ax.grid(color=PALETTE["grid"], lw=0.4)
+    ax.set_title(f"Spectra ({observer_title} used to integrate them)", fontsize=10)
+    ax.legend(loc="upper right", fontsize=7, frameon=True)
+    return fig, ax

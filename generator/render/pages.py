@@ -127,6 +127,12 @@ def methods(spec) -> list[tuple[str, str]]:
             ("Colours: dominant wavelength", "CIE 15:2004 §9.1, relative to each colour's reference white, or "
                                              "to the equal-energy white E (x = y = 1/3) where none is stated"),
         ]
+    if spec.spectra:
+        extra.append(("Spectra", "resampled to 1 nm as CIE 167:2005 recommends (Sprague 1880 for uniform "
+                                 "spacing, a natural cubic spline for irregular spacing); integrated per CIE "
+                                 "15:2004 eq. 7.1 at 1 nm over 360-830 nm, zero outside the measured range; "
+                                 "luminance of radiance spectra with K_m = 683.002 lm/W; FWHM of the highest "
+                                 "peak, centroid = Σλ S(λ) / Σ S(λ)"))
     return extra + [
         ("Observer", OBSERVERS[spec.observer][1] + ", colour-matching functions at 1 nm, 360-830 nm "
                      "(CIE 018:2019)"),

@@ -9,6 +9,7 @@ from ..publish import SiteFiles
 from . import figures as F
 from .pages import (CAUTION, CAUTION_CATEGORIES, environment, fmt, methods, render_markdown, row_view,
                     templates_dir)
+from ..data import OBSERVERS
 from .results import dumps
 
 
@@ -72,6 +73,13 @@ def _figures(e) -> list[dict]:
             out.append({"file": name, "svg": F.save_svg(fig),
                         "title": "CIE 1931 xy diagram" if diag == "xy" else "CIE 1976 u'v' diagram",
                         "alt": _alt(e, diag)})
+    if spec.spectra:
+        series = [(sd.label, sd.wavelengths, sd.values, sd.sample is not None) for sd in spec.spectra]
+        fig, _ = F.spectra_plot(series, OBSERVERS[spec.observer][1])
+        out.append({"file": "spectra.svg", "svg": F.save_svg(fig), "title": "Spectra",
+                    "alt": "Spectra of " + ", ".join(sd.label for sd in spec.spectra if sd.sample is None)
+                           + f", each normalised to its peak; {sum(sd.sample is not None for sd in spec.spectra)}"
+                           " measured unit spectra dashed"})
     if spec.white is not None:
         fig, _ = F.white_closeup(layer_for(e, "white"))
         out.append({"file": "white.svg", "svg": F.save_svg(fig), "title": "White point close-up",
@@ -122,6 +130,13 @@ def spec_context(e, figs) -> dict:
                         "white": c.reference_white_written or "E (dominant wavelength only)",
                         "limits": ", ".join(c.tolerance.kinds()) + ("" if c.tolerance_from == "own"
                                                                     else " (section default)")})
+    spectra = [{"label": f["label"], "sample": f["sample"] or "", "source": f["source"],
+                "sampling": f["sampling"], "interpolation": {"none": "none (1 nm)", "sprague": "Sprague",
+                                                             "cubic-spline": "cubic spline"}[f["interpolation"]],
+                "x": fmt(f["x"]), "y": fmt(f["y"]), "luminance": fmt(f["luminance_cd_m2"], 1),
+                "peak": fmt(f["peak_wavelength_nm"], 1), "centroid": fmt(f["centroid_wavelength_nm"], 1),
+                "fwhm": fmt(f["fwhm_nm"], 1), "cct": fmt(f.get("cct_K"), 0), "duv": fmt(f.get("duv"), 4)}
+               for f in d.spectra.values()]
     npm = [[fmt(x, 6) for x in row] for row in d.npm] if d.npm else None
     npm_inv = [[fmt(x, 6) for x in row] for row in d.npm_inverse] if d.npm_inverse else None
     return {
@@ -139,7 +154,7 @@ def spec_context(e, figs) -> dict:
                   "indeterminate": "?"}[u["verdict"]]) for u in a.units],
         "unit_rows": [r for r in rows if r["sample"] is not None],
         "lots": a.lots,
-        "white": white, "primaries": prims, "colours": colours, "gamut": gamut, "npm": npm, "npm_inverse": npm_inv,
+        "white": white, "primaries": prims, "colours": colours, "spectra": spectra, "gamut": gamut, "npm": npm, "npm_inverse": npm_inv,
         "notes_html": render_markdown(spec.notes) if spec.notes else "",
         "methods": methods(spec),
         "caution": CAUTION if spec.category in CAUTION_CATEGORIES else "",

@@ -3,16 +3,21 @@ and the physical checks (inside the spectral locus, primaries that span an area,
 white inside the gamut)."""
 from __future__ import annotations
 
+from pathlib import Path
+
 import numpy as np
 
 from ..colour.cct import xy_from_cct_duv
 from ..colour.convert import XYZ_to_xy, uv_prime_to_xy, xy_to_XYZ
 from ..colour.difference import Lab_to_XYZ
+from ..colour.spectrum import luminance as spectrum_luminance
+from ..colour.spectrum import resample_to_1nm, spectrum_XYZ
+from ..measure.spectra_csv import SpectraFileError, parse_spectra_csv
 from ..colour.gamut import convex_hull, polygon_area
 from ..colour.region import in_polygon
 from ..colour.wavelength import outside_locus_distance
 from ..data import ILLUMINANTS, REFERENCE_SPACES
-from ..model import Colour, GamutRequirement, Measurement, Primary, ReferenceGamut, Spec, Tolerance, Unit, White
+from ..model import Colour, GamutRequirement, SpectrumData, Measurement, Primary, ReferenceGamut, Spec, Tolerance, Unit, White
 from .problems import Problems, did_you_mean
 from .schema import RESERVED_COLOUR_NAMES, RESERVED_PRIMARY_NAMES, UNIT_KEYS
 from .yamlnodes import Map, Mark, Node, Seq
@@ -66,9 +71,93 @@ def _tolerance(v: dict | None) -> Tolerance:
 
 
 class _Resolver:
-    def __init__(self, file: str, node: Map, problems: Problems):
+    def __init__(self, file: str, node: Map, problems: Problems, observer: str = "cie1931-2"):
         self.file, self.node, self.problems = file, node, problems
+        self.observer = observer
         self.ok = True
+        self.spectra: dict[str, SpectrumData] = {}    # dotted path -> spectrum
+        self.luminance: dict[str, float] = {}         # dotted path -> cd/m² of a radiance spectrum
+        self._tables: dict[str, object] = {}
+        self._warned: set[str] = set()
+
+    def spectrum_xy(self, v: dict, path: list, label: str, is_white=False, sample=None):
+        """xy of a spectrum given where a chromaticity is accepted (inline or from a CSV file)."""
+        sp = v["spectrum"]
+        spath = path + ["spectrum"]
+        if "file" in sp:
+            table = self.spectra_table(sp["file"], spath + ["file"])
+            if table is None:
+                return None
+            if sp["channel"] not in table.channels:
+                self.error(spath + ["channel"], f"expected a column of {sp['file']}, found '{sp['channel']}'",
+                           did_you_mean(sp["channel"], table.channels) or "columns: " + ", ".join(table.channels))
+                return None
+            wl = np.array(table.wavelengths)
+            values = np.array(table.channels[sp["channel"]])
+            source = f"{sp['file']}, column {sp['channel']}"
+        else:
+            values = np.array(sp["values"], dtype=float)
+            wl = sp["start"] + sp["step"] * np.arange(len(values))
+            source = "inline"
+        rs = resample_to_1nm(wl, values)
+        steps = np.diff(wl)
+        sampling = (f"{wl[0]:g}-{wl[-1]:g} nm at {steps[0]:g} nm" if np.allclose(steps, steps[0], rtol=1e-6)
+                    else f"{wl[0]:g}-{wl[-1]:g} nm, irregular, {len(wl)} points")
+        # warn once per file (every column shares its wavelengths), once per inline spectrum
+        warned = sp.get("file", _dotted(spath))
+        if warned not in self._warned:
+            self._warned.add(warned)
+            what = f"spectra of {sp['file']}" if "file" in sp else "spectrum"
+            if rs.method != "none":
+                how = "Sprague interpolation" if rs.method == "sprague" else "a natural cubic spline"
+                self.warn(spath, f"{what} sampled {sampling} resampled to 1 nm by {how} (CIE 167:2005)",
+                          "give spectra at 1 nm to integrate them without interpolation")
+            if wl[0] > 380 or wl[-1] < 780:
+                self.warn(spath, f"{what} cover {wl[0]:g}-{wl[-1]:g} nm only and count as zero outside",
+                          "CIE 15 integrates over 360-830 nm (380-780 nm at least)")
+        XYZ = spectrum_XYZ(rs.wavelengths, rs.values, self.observer)
+        xy = tuple(float(c) for c in XYZ_to_xy(XYZ))
+        if not (np.all(np.isfinite(xy)) and XYZ[1] > 0):
+            self.error(spath, "expected a spectrum with visible power, found one whose tristimulus values "
+                       "define no chromaticity", "check the values and the wavelength range")
+            return None
+        key = _dotted(path)
+        self.spectra[key] = SpectrumData(key, label, rs.wavelengths, rs.values, rs.method, sampling, source,
+                                         sp["scale"], is_white, sample)
+        if sp["scale"] == "radiance":
+            self.luminance[key] = float(spectrum_luminance(XYZ))
+        return xy
+
+    def spectra_table(self, name: str, path: list):
+        """A spectra CSV file relative to the spec, refused outside the spec's folder."""
+        if name in self._tables:
+            return self._tables[name]
+        base = Path(self.file).parent.resolve()
+        target = (base / name).resolve()
+        if Path(name).is_absolute() or not target.is_relative_to(base):
+            self.error(path, f"expected a file inside the spec's folder, found '{name}'",
+                       "spectra files live beside the spec or in a folder below it")
+            self._tables[name] = None
+            return None
+        try:
+            text = target.read_text(encoding="utf-8-sig")
+        except (OSError, UnicodeDecodeError) as e:
+            self.error(path, f"expected a readable spectra CSV file, found '{name}' "
+                       f"({getattr(e, 'strerror', None) or 'not UTF-8 text'})",
+                       "give the path relative to the spec file")
+            self._tables[name] = None
+            return None
+        try:
+            table = parse_spectra_csv(text)
+        except SpectraFileError as e:
+            shown = (Path(self.file).parent / name).as_posix()
+            self.problems.error(Mark(shown, e.line, e.col), "", e.message,
+                                f"spectra files: a 'wavelength' column in nm, then one column per channel "
+                                f"(read for {_dotted(path)})")
+            self.ok = False
+            table = None
+        self._tables[name] = table
+        return table
 
     def error(self, path, message, hint="", key=False):
         self.problems.error(mark_at(self.node, path, key), _dotted(path), message, hint)
@@ -77,8 +166,11 @@ class _Resolver:
     def warn(self, path, message, hint=""):
         self.problems.warn(mark_at(self.node, path), _dotted(path), message, hint)
 
-    def xy_of(self, v: dict, path: list) -> tuple[float, float] | None:
+    def xy_of(self, v: dict, path: list, label: str = "", is_white=False, sample=None
+              ) -> tuple[float, float] | None:
         form = v["form"]
+        if form == "spectrum":
+            return self.spectrum_xy(v, path, label or _dotted(path), is_white, sample)
         if form == "name":
             ill = ILLUMINANTS.get(v["name"])
             if ill is None:
@@ -131,6 +223,9 @@ def _written(v: dict) -> str:
         return f"u' {v['u_prime']:g}, v' {v['v_prime']:g}"
     if f == "Lab":
         return f"L* {v['L']:g}, a* {v['a']:g}, b* {v['b']:g}"
+    if f == "spectrum":
+        sp = v["spectrum"]
+        return f"spectrum ({sp['file']}, {sp['channel']})" if "file" in sp else "spectrum (inline)"
     if f == "cct":
         return f"CCT {v['cct']:g} K, Duv {v.get('duv', 0.0):+g}"
     return "XYZ"
@@ -149,15 +244,16 @@ def _reference_from_spec(other: dict) -> ReferenceGamut | None:
 
 
 def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems) -> Spec | None:
-    r = _Resolver(file, node, problems)
     observer = v.get("observer", "cie1931-2")
+    r = _Resolver(file, node, problems, observer)
 
     white = None
     if "white" in v:
         w = v["white"]
-        xy = r.xy_of(w["target"], ["white", "target"])
+        xy = r.xy_of(w["target"], ["white", "target"], "white", is_white=True)
         if xy is not None and r.physical(xy, ["white", "target"], observer) is not None:
-            white = White(xy, _written(w["target"]), _tolerance(w.get("tolerance")), w.get("luminance", {}))
+            white = White(xy, _written(w["target"]), _tolerance(w.get("tolerance")), w.get("luminance", {}),
+                          r.luminance.get("white.target"))
 
     primaries: list[Primary] = []
     pv = v.get("primaries", {})
@@ -165,7 +261,7 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems)
     for name, p in pv.items():
         if name in RESERVED_PRIMARY_NAMES:
             continue
-        xy = r.xy_of(p, ["primaries", name])
+        xy = r.xy_of(p, ["primaries", name], name)
         if xy is None or r.physical(xy, ["primaries", name], observer) is None:
             continue
         own = p.get("tolerance")
@@ -212,7 +308,8 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems)
                     f"(also units[{seen_serials[serial]}])", "every measured unit needs a unique serial")
             continue
         seen_serials[serial] = i
-        white_m = _measure(r, u.get("white"), ["units", i, "white"], observer) if "white" in u else None
+        white_m = (_measure(r, u.get("white"), ["units", i, "white"], observer, f"{serial} white", True, serial)
+                   if "white" in u else None)
         prim_m = {}
         for key, m in u.items():
             if key in UNIT_KEYS:
@@ -222,7 +319,7 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems)
                         did_you_mean(key, names + list(UNIT_KEYS))
                         or f"primaries: {', '.join(names)}; unit keys: {', '.join(UNIT_KEYS)}", key=True)
                 continue
-            mm = _measure(r, m, ["units", i, key], observer)
+            mm = _measure(r, m, ["units", i, key], observer, f"{serial} {key}", False, serial)
             if mm is not None:
                 prim_m[key] = mm
         col_m = {}
@@ -235,7 +332,7 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems)
                             f"'{cname}'", did_you_mean(cname, declared_colours)
                             or "colours: " + (", ".join(declared_colours) or "none"), key=True)
                 continue
-            mm = _measure_colour(r, c, m, cpath, observer)
+            mm = _measure_colour(r, c, m, cpath, observer, serial)
             if mm is not None:
                 col_m[cname] = mm
         units.append(Unit(serial, u.get("lot", ""), u.get("supplier", ""), white_m, prim_m, u.get("notes", ""),
@@ -250,6 +347,7 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems)
         revision=v.get("revision", ""), status=v.get("status", "draft"), observer=observer,
         extends=v.get("extends", ""), owner=v.get("owner", ""), notes=v.get("notes", ""),
         white=white, primaries=primaries, gamut=gamut, units=units, references=references, colours=colours,
+        spectra=[r.spectra[k] for k in sorted(r.spectra, key=_spectrum_order)],
         inherited=dict(node.inherited), warnings=warnings)
 
 
@@ -295,17 +393,22 @@ def _on_hull(xy, hull) -> bool:
     return bool(np.any(np.all(np.isclose(hull, xy, atol=1e-12), axis=1)))
 
 
-def _measure(r: _Resolver, m: dict | None, path, observer) -> Measurement | None:
+def _measure(r: _Resolver, m: dict | None, path, observer, label="", is_white=False, sample=None
+             ) -> Measurement | None:
     if m is None:
         return None
-    xy = r.xy_of(m, path)
+    xy = r.xy_of(m, path, label, is_white, sample)
     if xy is None:
         return None
     d = r.physical(xy, path, observer, measured=True)
     if d is None:
         return None
-    Y = m.get("Y")
+    Y = m.get("Y", r.luminance.get(_dotted(path)))   # a radiance spectrum gives the luminance
     return Measurement(xy, Y, d)
+
+
+def _spectrum_order(key: str):
+    return (key.startswith("units"), key)
 
 
 def _needs_lab(tol: Tolerance) -> bool:
@@ -340,7 +443,7 @@ def _colours(r: _Resolver, cv: dict, observer) -> list[Colour]:
             xy = tuple(float(c_) for c_ in XYZ_to_xy(XYZ))
             Y = float(XYZ[1])
         else:
-            xy = r.xy_of(t, path + ["target"])
+            xy = r.xy_of(t, path + ["target"], name)
             Y = t.get("Y")
         if xy is None or r.physical(xy, path + ["target"], observer) is None:
             continue
@@ -361,7 +464,7 @@ def _colours(r: _Resolver, cv: dict, observer) -> list[Colour]:
     return out
 
 
-def _measure_colour(r: _Resolver, c: Colour, m: dict, path, observer) -> Measurement | None:
+def _measure_colour(r: _Resolver, c: Colour, m: dict, path, observer, serial: str) -> Measurement | None:
     if m["form"] == "Lab":
         if c.reference_white is None:
             r.error(path, "expected a reference_white for a CIELAB measurement, found none",
@@ -371,7 +474,7 @@ def _measure_colour(r: _Resolver, c: Colour, m: dict, path, observer) -> Measure
         xy = tuple(float(v) for v in XYZ_to_xy(XYZ))
         Y = float(XYZ[1])
     else:
-        xy = r.xy_of(m, path)
+        xy = r.xy_of(m, path, f"{serial} {c.name}", sample=serial)
         if xy is None:
             return None
         Y = m.get("Y")

@@ -94,9 +94,46 @@ def _limits(node, path, problems):
     return v
 
 
-def _forms(extra: dict[str, Field], names: bool, cct: bool, xyz: bool, lab: bool = False) -> dict[str, Record]:
+_SPECTRUM_INLINE = Record({
+    "start": Field(Number("first wavelength, nm", minimum=200.0, maximum=1100.0), True),
+    "step": Field(Number("wavelength interval, nm", exclusive_minimum=0.0, maximum=50.0), True),
+    "values": Field(ListOf(Number(), "spectral values, one per wavelength from start", min_items=3), True),
+    "scale": Field(Text("relative (default) or radiance: W·sr⁻¹·m⁻²·nm⁻¹, giving luminance in cd/m²",
+                        choices=("relative", "radiance"))),
+}, "a spectrum written inline: start, step and values")
+
+_SPECTRUM_FILE = Record({
+    "file": Field(Text("CSV file relative to the spec, inside the spec's folder: a 'wavelength' column "
+                       "in nm, then one column per channel"), True),
+    "channel": Field(Text("the column of the file to read"), True),
+    "scale": Field(Text("relative (default) or radiance: W·sr⁻¹·m⁻²·nm⁻¹, giving luminance in cd/m²",
+                        choices=("relative", "radiance"))),
+}, "a spectrum read from one column of a CSV file")
+
+
+def _spectrum(node, path, problems):
+    if isinstance(node, Map) and "file" in node.items:
+        v = _SPECTRUM_FILE.check(node, path, problems)
+    else:
+        v = _SPECTRUM_INLINE.check(node, path, problems)
+    if v is INVALID:
+        return v
+    v.setdefault("scale", "relative")
+    return v
+
+
+SPECTRUM = Custom(_spectrum, {"oneOf": [_SPECTRUM_INLINE.json_schema(), _SPECTRUM_FILE.json_schema()]},
+                  "a spectral power distribution, inline {start, step, values} or {file, channel}; "
+                  "resampled to 1 nm (CIE 167:2005) and integrated with the spec's observer",
+                  "{start, step, values} or {file, channel}")
+
+
+def _forms(extra: dict[str, Field], names: bool, cct: bool, xyz: bool, lab: bool = False,
+           spectrum: bool = True) -> dict[str, Record]:
     forms = {"xy": Record({"x": _X, "y": _Y, **extra}),
              "uv": Record({"u_prime": _U, "v_prime": _V, **extra})}
+    if spectrum:
+        forms["spectrum"] = Record({"spectrum": Field(SPECTRUM, True, SPECTRUM.description), **extra})
     if lab:
         lab_extra = {k: f for k, f in extra.items() if k != "Y"}
         forms["Lab"] = Record({
@@ -119,7 +156,7 @@ def chromaticity(description: str, *, extra: dict[str, Field] | None = None, nam
     extra = extra or {}
     forms = _forms(extra, names, cct, xyz, lab)
     written = ["{x, y}", "{u_prime, v_prime}"] + (["{cct, duv}"] if cct else []) + (
-        ["{X, Y, Z}"] if xyz else []) + (["{L, a, b}"] if lab else [])
+        ["{X, Y, Z}"] if xyz else []) + (["{L, a, b}"] if lab else []) + ["{spectrum}"]
     if names:
         written.insert(0, "a named illuminant")
 
@@ -131,7 +168,7 @@ def chromaticity(description: str, *, extra: dict[str, Field] | None = None, nam
             problems.error(node.mark, path, f"expected {' or '.join(written)}, found {describe(node)}")
             return INVALID
         keys = set(node.items)
-        form = ("xy" if keys & {"x", "y"} else "uv" if keys & {"u_prime", "v_prime"}
+        form = ("spectrum" if "spectrum" in keys else "xy" if keys & {"x", "y"} else "uv" if keys & {"u_prime", "v_prime"}
                 else "cct" if cct and "cct" in keys else "XYZ" if xyz and keys & {"X", "Z"}
                 else "Lab" if lab and keys & {"L", "a", "b"} else None)
         if form is None:
@@ -153,7 +190,7 @@ def chromaticity(description: str, *, extra: dict[str, Field] | None = None, nam
 WHITE = Record({
     "target": Field(chromaticity("the white's target chromaticity", names=True, cct=True), True,
                     "a named illuminant (A, C, D50, D55, D65, D75, E, DCI), {x, y}, "
-                    "{u_prime, v_prime} or {cct, duv}"),
+                    "{u_prime, v_prime}, {cct, duv} or {spectrum}"),
     "tolerance": Field(WHITE_TOLERANCE, description="limits on the white; every listed limit must hold"),
     "luminance": Field(LIMITS, description="white luminance limits, cd/m²"),
 }, "the white point: target, tolerances and luminance")

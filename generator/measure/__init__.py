@@ -1,0 +1,1 @@
+"""Reading supplier data files (spectra)."""
