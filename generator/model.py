@@ -19,13 +19,14 @@ class Tolerance:
     cct: tuple[float | None, float | None] | None = None
     duv: tuple[float | None, float | None] | None = None
     delta_e2000: tuple[float, float, float, float] | None = None   # (max, kL, kC, kH)
+    macadam_steps: float | None = None
     delta_e76: float | None = None
     dominant_wavelength: tuple[float | None, float | None] | None = None   # nm
     excitation_purity: tuple[float | None, float | None] | None = None
 
     def kinds(self) -> list[str]:
         return [k for k in ("delta_uv", "box", "ellipse", "region", "cct", "duv", "delta_e2000", "delta_e76",
-                            "dominant_wavelength", "excitation_purity")
+                            "macadam_steps", "dominant_wavelength", "excitation_purity")
                 if getattr(self, k) is not None]
 
 

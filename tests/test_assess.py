@@ -194,3 +194,26 @@ def test_a_purple_colour_fails_a_dominant_wavelength_range(spec_dir):
     r = rows[("colours.magenta.dominant_wavelength", None)]
     assert r["value"] is None and r["verdict"] == "fail"
     assert e.derived.colours["magenta"]["complementary_wavelength_nm"] > 490
+
+
+def test_macadam_steps_row_for_a_unit(spec_dir):
+    import numpy as np
+
+    # target at the centre of MacAdam's ellipse 13 (0.305, 0.323): 10³a 2.55, θ 57.2° (W&S Table 2(5.4.1))
+    th = np.deg2rad(57.2)
+    x, y = 0.305 + 2 * 2.55e-3 * np.cos(th), 0.323 + 2 * 2.55e-3 * np.sin(th)
+    spec_dir("m.yaml", f"""\
+spec: 1
+id: steps
+white:
+  target: {{x: 0.305, y: 0.323}}
+  tolerance: {{macadam_steps: 1.5}}
+units:
+  - serial: S1
+    white: {{x: {x!r}, y: {y!r}}}
+""")
+    (e,), _ = evaluate(spec_dir.dir)
+    (row,) = [r for r in e.assessment.rows if r["quantity"] == "macadam_steps"]
+    assert row["value"] == pytest.approx(2.0, abs=1e-9)
+    assert row["verdict"] == "fail" and row["unit"] == "steps"
+    assert row["limit"]["max"] == 1.5 and row["limit"]["a1"] == pytest.approx(2.55e-3)

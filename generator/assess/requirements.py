@@ -7,6 +7,7 @@ import numpy as np
 
 from ..colour.convert import delta_uv_prime, xy_to_uv_prime
 from ..colour.difference import delta_e_2000, delta_e_76
+from ..colour.macadam import macadam_metric, macadam_steps, metric_axes
 from ..colour.region import distance_to_polygon_edges, ellipse_radius, in_polygon
 from ..derive import Derived
 from ..model import Spec, Tolerance
@@ -14,7 +15,7 @@ from .rules import FAIL, SIMPLE, DecisionRule, combine, decide, margin
 
 UNITS = {"delta_uv": "", "cct": "K", "duv": "", "box": "", "ellipse": "", "region": "",
          "luminance": "cd/m2", "coverage": "%", "area-ratio": "%", "delta_e2000": "", "delta_e76": "",
-         "dominant_wavelength": "nm", "excitation_purity": ""}
+         "dominant_wavelength": "nm", "excitation_purity": "", "macadam_steps": "steps"}
 
 
 @dataclass
@@ -72,6 +73,13 @@ def tolerance_rows(prefix, subject, sample, tol: Tolerance, target_xy, xy, rule,
             rows.append(_row(f"{prefix}.ellipse", subject, sample, "ellipse", rr,
                              {"max": 1.0, "a": a, "b": b, "angle": ang}, decide(rr, None, 1.0, rule=rule),
                              margin(rr, None, 1.0), "xy ellipse around target (1 = on the ellipse)"))
+        if tol.macadam_steps is not None:
+            n = tol.macadam_steps
+            s = float(macadam_steps(np.array(xy), np.array(target_xy)))
+            a, b, ang = (float(v) for v in metric_axes(macadam_metric(np.array(target_xy))))
+            rows.append(_row(f"{prefix}.macadam_steps", subject, sample, "macadam_steps", s,
+                             {"max": n, "a1": a, "b1": b, "angle1": ang}, decide(s, None, n, rule=rule),
+                             margin(s, None, n), "MacAdam steps from target (MacAdam 1942, interpolated)"))
     if tol.region is not None:
         poly = np.array(tol.region)
         inside = bool(in_polygon(np.array(xy), poly))

@@ -11,6 +11,7 @@ import markdown as md
 
 from ..assess.rules import SYMBOL
 from ..colour.cct import METHOD as CCT_METHOD
+from ..colour.macadam import METHOD as MACADAM_METHOD
 from ..data import ILLUMINANTS, OBSERVERS
 
 CAUTION_CATEGORIES = ("signal", "safety", "lighting")
@@ -53,7 +54,8 @@ def fmt(v, digits: int = 4) -> str:
 
 _DIGITS = {"cct": 0, "duv": 4, "delta_uv": 4, "box": 4, "ellipse": 2, "region": 4,
            "luminance": 1, "coverage": 1, "area-ratio": 1, "delta_e2000": 2, "delta_e76": 2,
-           "dominant_wavelength": 1, "excitation_purity": 3}
+           "dominant_wavelength": 1, "excitation_purity": 3,
+           "macadam_steps": 2}
 
 
 def limit_text(row) -> str:
@@ -127,6 +129,10 @@ def methods(spec) -> list[tuple[str, str]]:
             ("Colours: dominant wavelength", "CIE 15:2004 §9.1, relative to each colour's reference white, or "
                                              "to the equal-energy white E (x = y = 1/3) where none is stated"),
         ]
+    tols = [spec.white.tolerance] if spec.white else []
+    tols += [p.tolerance for p in spec.primaries] + [c.tolerance for c in spec.colours]
+    if any(t.macadam_steps is not None for t in tols):
+        extra.append(("MacAdam steps", MACADAM_METHOD))
     if spec.spectra:
         extra.append(("Spectra", "resampled to 1 nm as CIE 167:2005 recommends (Sprague 1880 for uniform "
                                  "spacing, a natural cubic spline for irregular spacing); integrated per CIE "

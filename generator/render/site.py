@@ -5,6 +5,7 @@ import json
 
 import numpy as np
 
+from ..colour.macadam import macadam_metric, metric_axes
 from ..publish import SiteFiles
 from . import figures as F
 from .pages import (CAUTION, CAUTION_CATEGORIES, environment, fmt, methods, render_markdown, row_view,
@@ -23,6 +24,10 @@ def _tolerance_shapes(tol, centre_xy, label):
         shapes.append((f"{label}: xy ellipse", F.ellipse_xy(centre_xy, *tol.ellipse)))
     if tol.region is not None:
         shapes.append((f"{label}: region", np.array(tol.region)))
+    if tol.macadam_steps is not None:
+        a, b, ang = (float(v) for v in metric_axes(macadam_metric(np.array(centre_xy))))
+        n = tol.macadam_steps
+        shapes.append((f"{label}: {n:g}-step MacAdam ellipse", F.ellipse_xy(centre_xy, n * a, n * b, ang)))
     if tol.cct is not None or tol.duv is not None:
         shapes.append((f"{label}: CCT × Duv", F.cct_duv_quad_xy(tol.cct or (None, None), tol.duv or (None, None))))
     return shapes

@@ -65,6 +65,7 @@ def _tolerance(v: dict | None) -> Tolerance:
         delta_e2000=((v["delta_e2000"]["max"], v["delta_e2000"].get("kL", 1.0), v["delta_e2000"].get("kC", 1.0),
                       v["delta_e2000"].get("kH", 1.0)) if "delta_e2000" in v else None),
         delta_e76=v.get("delta_e76"),
+        macadam_steps=v.get("macadam_steps"),
         dominant_wavelength=v.get("dominant_wavelength"),
         excitation_purity=v.get("excitation_purity"),
     )

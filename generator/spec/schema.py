@@ -65,6 +65,9 @@ def _tolerance(white: bool) -> Record:
         "box": Field(BOX, description=BOX.description),
         "ellipse": Field(ELLIPSE, description=ELLIPSE.description),
         "region": Field(REGION, description=REGION.description),
+        "macadam_steps": Field(Number("size n of an n-step MacAdam ellipse around the target: the MacAdam "
+                                      "(1942) ellipses interpolated at the target, scaled by n",
+                                      exclusive_minimum=0.0, maximum=20.0)),
     }
     if white:
         f["cct"] = Field(Range("inclusive CCT range, K",
