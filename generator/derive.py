@@ -6,6 +6,7 @@ no YAML, no HTML, no files.
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from functools import lru_cache
 
 import numpy as np
 
@@ -15,6 +16,7 @@ from .colour.difference import XYZ_to_Lab
 from .colour.spectrum import centroid_wavelength, fwhm, luminance, peak_wavelength, spectrum_XYZ
 from .colour.gamut import area_ratio, convex_hull, coverage, polygon_area
 from .colour.npm import inverse_npm, npm_from_primaries
+from .colour.volume import lab_gamut_volume, lab_volume_coverage
 from .colour.wavelength import dominant_wavelength
 from .model import Spec
 
@@ -33,9 +35,43 @@ class GamutFigures:
     area_xy: float
     area_uv: float
     vs: dict[str, dict[str, float | None]]
+    volume: dict | None = None     # CIELAB volume figures; None without an NPM
+    npm: np.ndarray | None = None
 
     def as_json(self) -> dict:
-        return {"area_xy": self.area_xy, "area_uv": self.area_uv, "vs": self.vs}
+        d = {"area_xy": self.area_xy, "area_uv": self.area_uv, "vs": self.vs}
+        if self.volume is not None:
+            d["volume"] = self.volume
+        return d
+
+
+@lru_cache(maxsize=None)
+def _reference_volume(primaries: tuple, white: tuple) -> tuple[float, tuple | None]:
+    """CIELAB volume of a reference space with its own white, and its NPM (cached: constant)."""
+    M = npm_from_primaries(list(primaries), white)
+    if not np.all(np.isfinite(M)):
+        return float("nan"), None
+    return lab_gamut_volume(M), tuple(map(tuple, M))
+
+
+def volume_figures(npm, spec: Spec, coverage_refs) -> dict | None:
+    """CIELAB volume of the gamut (own white), each reference space's volume (own white), the
+    volume ratio (%), and for ``coverage_refs`` the share of the reference volume covered (%)."""
+    if npm is None or not np.all(np.isfinite(npm)):
+        return None
+    V = lab_gamut_volume(npm)
+    vs = {}
+    for key in sorted(spec.references):
+        ref = spec.references[key]
+        if len(ref.primaries) != 3 or not np.all(np.isfinite(ref.white)):
+            continue
+        Vr, R = _reference_volume(tuple(ref.primaries), tuple(ref.white))
+        entry = {"volume": _num(Vr), "volume_ratio": _num(100.0 * V / Vr) if R is not None else None}
+        if key in coverage_refs and R is not None:
+            covered, whole = lab_volume_coverage(npm, np.array(R))
+            entry["volume_coverage"] = _num(min(100.0, 100.0 * covered / whole))
+        vs[key] = entry
+    return {"cielab": V, "vs": vs}
 
 
 def reference_hulls(spec: Spec) -> dict[str, tuple[np.ndarray, np.ndarray]]:
@@ -177,8 +213,10 @@ def derive(spec: Spec) -> Derived:
         if np.all(np.isfinite(m)):
             npm, npm_inv = m.tolist(), inverse_npm(m).tolist()
     gamut = None
+    volume_refs = {g.reference for g in spec.gamut if g.metric == "volume-coverage"}
     if len(spec.primaries) >= 3:
         gamut = gamut_figures([p.xy for p in spec.primaries], ref_hulls, keys)
+        gamut.volume = volume_figures(np.array(npm) if npm is not None else None, spec, volume_refs)
 
     colours = {}
     by_name = {c.name: c for c in spec.colours}
@@ -203,6 +241,10 @@ def derive(spec: Spec) -> Derived:
         ug = None
         if names and all(n in u.primaries for n in names):
             ug = gamut_figures([u.primaries[n].xy for n in names], ref_hulls, needed)
+            if any(g.metric.startswith("volume") for g in spec.gamut) and len(names) == 3 and white_xy:
+                # the unit's own white where measured, else the white target
+                m = npm_from_primaries([u.primaries[n].xy for n in names], u.white.xy if u.white else white_xy)
+                ug.volume = volume_figures(m, spec, volume_refs)
         uc = {}
         for name, m in u.colours.items():
             c = by_name[name]

@@ -90,8 +90,8 @@ class ReferenceGamut:
 class GamutRequirement:
     index: int
     reference: str
-    metric: str             # "coverage" | "area-ratio"
-    diagram: str            # "xy" | "uv"
+    metric: str             # "coverage" | "area-ratio" | "volume" | "volume-coverage"
+    diagram: str            # "xy" | "uv" | "lab" (volume metrics)
     min: float | None
     max: float | None
     note: str = ""

@@ -24,7 +24,7 @@ def test_table_agrees_with_the_colour_science_copy_of_wyszecki_stiles():
 
 
 def test_the_ellipse_at_a_centre_is_the_tabulated_one():
-    # check-values §7, ellipse 13 at (0.305, 0.323): calculated 10³a 2.55, 10³b 0.68, θ 57.2 [L]
+    # check values §7, ellipse 13 at (0.305, 0.323): calculated 10³a 2.55, 10³b 0.68, θ 57.2 [L]
     a, b, ang = metric_axes(macadam_metric((0.305, 0.323)))
     assert (float(a), float(b), float(ang)) == pytest.approx((2.55e-3, 0.68e-3, 57.2), abs=1e-12)
 

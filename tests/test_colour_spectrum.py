@@ -9,7 +9,7 @@ from generator.colour import spectrum as sp
 
 # the issue asks integration to agree with an independent library to 1e-6 relative
 LIBRARY_REL = 1e-6
-# check-values §1b: the 5th decimal of an illuminant's xy depends on the summation scheme
+# check values §1b: the 5th decimal of an illuminant's xy depends on the summation scheme
 # (range, step, interpolation); 5 nm Sprague to 1 nm from 360 nm differs by up to 2.5e-5
 SUMMATION_TOL = 3e-5
 CMFS_2 = colour.MSDS_CMFS["CIE 1931 2 Degree Standard Observer"]
@@ -52,7 +52,7 @@ def test_irregular_spectrum_is_resampled_by_cubic_spline():
 
 
 @pytest.mark.parametrize(("name", "observer", "xy"), [
-    # CIE 15:2004 Table T.3 via check-values §1a [S][L]: D65, A, C, D50 in 2° and 10°
+    # CIE 15:2004 Table T.3 via check values §1a [S][L]: D65, A, C, D50 in 2° and 10°
     ("D65", "cie1931-2", (0.31272, 0.32903)),
     ("D65", "cie1964-10", (0.31382, 0.33100)),
     ("A", "cie1931-2", (0.44757, 0.40745)),

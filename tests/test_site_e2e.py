@@ -48,7 +48,8 @@ def test_every_diagram_is_well_formed_svg_with_the_expected_layers(demo_site):
     assert len(pages) == len(list(DEMO_SPECS.glob("*.yaml")))
     with_spectra = [p for p in pages if 'src="spectra.svg"' in p.read_text(encoding="utf-8")]
     assert with_spectra
-    assert len(svgs) == 2 * len(pages) + len(with_white) + len(with_spectra)
+    with_volume = [p for p in pages if 'src="volume.svg"' in p.read_text(encoding="utf-8")]
+    assert len(svgs) == 2 * len(pages) + len(with_white) + len(with_spectra) + len(with_volume)
     for p in svgs:
         root = ET.fromstring(p.read_text(encoding="utf-8"))
         assert root.tag.endswith("svg")
@@ -79,7 +80,8 @@ def test_results_json_follows_the_documented_contract(demo_results):
             assert r["verdict"] in ("pass", "fail", "indeterminate")
             assert isinstance(r["limit"], dict)
             if r["subject"] == "gamut":
-                assert r["reference"] and r["diagram"] in ("xy", "uv")
+                assert r["reference"] and r["diagram"] in (("lab",) if r["quantity"].startswith("volume")
+                                                           else ("xy", "uv"))
             if r["id"].startswith("colours."):
                 assert r["subject"] in s["derived"]["colours"]
         if any(r["verdict"] == "fail" for r in s["requirements"]):

@@ -416,3 +416,22 @@ def test_a_cielab_target_resolves_to_xy_and_luminance_factor(load):
     assert c.xy == pytest.approx(tuple(colour.XYZ_to_xy(XYZ)), abs=1e-12)
     assert c.Y == pytest.approx(100 * XYZ[1] / ref[1], abs=1e-9)
     assert c.reference_white == (0.34567, 0.35850) and c.reference_white_written == "D50"
+
+
+def test_volume_requirements_take_the_lab_diagram_only(load):
+    got = load(HEAD + PRIMARIES + "gamut:\n  - {reference: srgb, metric: volume, diagram: xy, min: 90}\n"
+               "  - {reference: srgb, metric: coverage, diagram: lab, min: 90}\n")
+    assert got == [
+        "s.yaml:8:48: gamut[0].diagram: expected lab for a volume requirement, found xy\n"
+        "    hint: gamut volumes are taken in CIELAB; leave diagram out",
+        "s.yaml:9:50: gamut[1].diagram: expected xy or uv for a coverage requirement, found lab\n"
+        "    hint: lab is for metric: volume or volume-coverage",
+    ]
+
+
+def test_a_volume_requirement_needs_a_white(load):
+    got = load(HEAD + PRIMARIES + "gamut:\n  - {reference: bt2020, metric: volume-coverage, min: 60}\n")
+    assert got == [
+        "s.yaml:8:33: gamut[0].metric: expected three primaries and a white for a CIELAB volume-coverage "
+        "requirement, found 3 primaries and no white\n"
+        "    hint: the CIELAB volume is that of an additive RGB display with its white"]

@@ -14,7 +14,7 @@ from ..model import Spec, Tolerance
 from .rules import FAIL, SIMPLE, DecisionRule, combine, decide, margin
 
 UNITS = {"delta_uv": "", "cct": "K", "duv": "", "box": "", "ellipse": "", "region": "",
-         "luminance": "cd/m2", "coverage": "%", "area-ratio": "%", "delta_e2000": "", "delta_e76": "",
+         "luminance": "cd/m2", "coverage": "%", "area-ratio": "%", "volume": "%", "volume-coverage": "%", "delta_e2000": "", "delta_e76": "",
          "dominant_wavelength": "nm", "excitation_purity": "", "macadam_steps": "steps"}
 
 
@@ -144,10 +144,15 @@ def colour_rows(colour, target_fig, fig, sample, rule, design=False):
 def gamut_rows(spec: Spec, figures, sample, rule):
     rows = []
     for g in spec.gamut:
-        key = f"{'coverage' if g.metric == 'coverage' else 'area_ratio'}_{g.diagram}"
-        value = figures.vs[g.reference][key] if figures is not None else None
+        if g.metric.startswith("volume"):
+            key = "volume_coverage" if g.metric == "volume-coverage" else "volume_ratio"
+            vol = figures.volume if figures is not None else None
+            value = (vol or {}).get("vs", {}).get(g.reference, {}).get(key)
+        else:
+            key = f"{'coverage' if g.metric == 'coverage' else 'area_ratio'}_{g.diagram}"
+            value = figures.vs[g.reference][key] if figures is not None else None
         limit = {k: v for k, v in (("min", g.min), ("max", g.max)) if v is not None}
-        diagram = "CIE 1931 xy" if g.diagram == "xy" else "CIE 1976 u'v'"
+        diagram = {"xy": "CIE 1931 xy", "uv": "CIE 1976 u'v'", "lab": "CIELAB"}[g.diagram]
         rows.append(_row(f"gamut.{g.reference}.{g.metric}.{g.diagram}", "gamut", sample, g.metric, value,
                          limit, decide(value, g.min, g.max, rule=rule), margin(value, g.min, g.max),
                          f"{g.metric} of {spec.references[g.reference].title} ({diagram})",

@@ -221,3 +221,31 @@ def spectra_plot(series, observer_title: str):
     ax.set_title(f"Spectra ({observer_title} used to integrate them)", fontsize=10)
     ax.legend(loc="upper right", fontsize=7, frameon=True)
     return fig, ax
+
+
+VOLUME_LIGHTNESS = (15.0, 30.0, 45.0, 60.0, 75.0, 90.0)
+
+
+def volume_slices(slices, spec_label: str, reference_label: str):
+    """Cross-sections of two CIELAB gamut solids at fixed lightness: ``slices`` of
+    (L, A, B, inside_spec, inside_reference) grids, drawn as a*b* outlines."""
+    fig, axes = plt.subplots(2, 3, figsize=(7.8, 5.4), sharex=True, sharey=True)
+    for ax, (L, A, B, spec_in, ref_in) in zip(axes.ravel(), slices):
+        for mask, colour, ls in ((ref_in, "#6b6b6b", (0, (4, 2))), (spec_in, PALETTE["gamut"], "-")):
+            if mask.any() and not mask.all():
+                ax.contour(A, B, mask.astype(float), levels=[0.5], colors=[colour], linestyles=[ls],
+                           linewidths=1.2)
+        ax.axhline(0, color=PALETTE["grid"], lw=0.5)
+        ax.axvline(0, color=PALETTE["grid"], lw=0.5)
+        ax.set_title(f"L* = {L:g}", fontsize=8)
+        ax.set_aspect("equal")
+    for ax in axes[-1]:
+        ax.set_xlabel("a*")
+    for ax in axes[:, 0]:
+        ax.set_ylabel("b*")
+    axes[0, 0].set(xlim=(-200, 200), ylim=(-200, 200))
+    axes[0, 0].plot([], [], color=PALETTE["gamut"], lw=1.2, label=spec_label)
+    axes[0, 0].plot([], [], color="#6b6b6b", lw=1.2, ls=(0, (4, 2)), label=reference_label)
+    fig.legend(loc="lower center", ncol=2, fontsize=7, frameon=False)
+    fig.suptitle(f"CIELAB gamut at six lightness levels, against {reference_label}", fontsize=10)
+    return fig, axes

@@ -53,7 +53,7 @@ def fmt(v, digits: int = 4) -> str:
 
 
 _DIGITS = {"cct": 0, "duv": 4, "delta_uv": 4, "box": 4, "ellipse": 2, "region": 4,
-           "luminance": 1, "coverage": 1, "area-ratio": 1, "delta_e2000": 2, "delta_e76": 2,
+           "luminance": 1, "coverage": 1, "area-ratio": 1, "volume": 1, "volume-coverage": 1, "delta_e2000": 2, "delta_e76": 2,
            "dominant_wavelength": 1, "excitation_purity": 3,
            "macadam_steps": 2}
 
@@ -133,6 +133,14 @@ def methods(spec) -> list[tuple[str, str]]:
     tols += [p.tolerance for p in spec.primaries] + [c.tolerance for c in spec.colours]
     if any(t.macadam_steps is not None for t in tols):
         extra.append(("MacAdam steps", MACADAM_METHOD))
+    if any(g.metric.startswith("volume") for g in spec.gamut) or (spec.white and len(spec.primaries) == 3):
+        extra.append(("Gamut volume", "CIELAB gamut volume (the metric ICDM IDMS §5.32 recommends): the "
+                                      "RGB cube's surface, 64 × 64 quads per face, through the NPM to XYZ and "
+                                      "CIELAB (CIE 15:2004 §8.2.1) with the display's own white (white Y = 100; "
+                                      "the white luminance cancels), volume by the divergence theorem; volume "
+                                      "ratio = volume / reference volume (each with its own white); volume "
+                                      "coverage = share of a 1 ΔE*ab grid over the reference solid inside the "
+                                      "gamut, both with the reference's white, no chromatic adaptation"))
     if spec.spectra:
         extra.append(("Spectra", "resampled to 1 nm as CIE 167:2005 recommends (Sprague 1880 for uniform "
                                  "spacing, a natural cubic spline for irregular spacing); integrated per CIE "

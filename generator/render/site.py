@@ -6,6 +6,8 @@ import json
 import numpy as np
 
 from ..colour.macadam import macadam_metric, metric_axes
+from ..colour.npm import npm_from_primaries
+from ..colour.volume import lightness_slice
 from ..publish import SiteFiles
 from . import figures as F
 from .pages import (CAUTION, CAUTION_CATEGORIES, environment, fmt, methods, render_markdown, row_view,
@@ -85,6 +87,21 @@ def _figures(e) -> list[dict]:
                     "alt": "Spectra of " + ", ".join(sd.label for sd in spec.spectra if sd.sample is None)
                            + f", each normalised to its peak; {sum(sd.sample is not None for sd in spec.spectra)}"
                            " measured unit spectra dashed"})
+    vol = [g for g in spec.gamut if g.metric.startswith("volume")]
+    if vol and e.derived.npm is not None:
+        ref = spec.references[vol[0].reference]
+        R = npm_from_primaries(list(ref.primaries), ref.white)
+        M = np.array(e.derived.npm)
+        white = R @ np.ones(3)
+        slices = []
+        for L in F.VOLUME_LIGHTNESS:
+            A, B, spec_in = lightness_slice(M, L, white, step=2.0)
+            _, _, ref_in = lightness_slice(R, L, white, step=2.0)
+            slices.append((L, A, B, spec_in, ref_in))
+        fig, _ = F.volume_slices(slices, "spec gamut", ref.title)
+        out.append({"file": "volume.svg", "svg": F.save_svg(fig), "title": "CIELAB gamut by lightness",
+                    "alt": f"a*b* outlines of the spec's CIELAB gamut and of {ref.title} at L* "
+                           + ", ".join(f"{L:g}" for L in F.VOLUME_LIGHTNESS) + f", both with {ref.title}'s white"})
     if spec.white is not None:
         fig, _ = F.white_closeup(layer_for(e, "white"))
         out.append({"file": "white.svg", "svg": F.save_svg(fig), "title": "White point close-up",
@@ -124,6 +141,13 @@ def spec_context(e, figs) -> dict:
                          "cov_xy": fmt(v["coverage_xy"], 1), "cov_uv": fmt(v["coverage_uv"], 1),
                          "ratio_xy": fmt(v["area_ratio_xy"], 1), "ratio_uv": fmt(v["area_ratio_uv"], 1)}
                         for k, v in sorted(d.gamut.vs.items())]}
+        if d.gamut.volume is not None:
+            gamut["volume"] = fmt(d.gamut.volume["cielab"], 0)
+            gamut["volume_vs"] = [{"key": k, "title": spec.references[k].title, "volume": fmt(v["volume"], 0),
+                                   "ratio": fmt(v["volume_ratio"], 1), "coverage": fmt(v.get("volume_coverage"), 1)}
+                                  for k, v in d.gamut.volume["vs"].items()]
+        else:
+            gamut["volume"], gamut["volume_vs"] = None, []
     colours = []
     for c in spec.colours:
         f = d.colours[c.name]
@@ -175,8 +199,13 @@ def index_context(evaluated) -> dict:
         key = ""
         if s.gamut and d.gamut is not None:
             g = s.gamut[0]
-            k = f"{'coverage' if g.metric == 'coverage' else 'area_ratio'}_{g.diagram}"
-            key = f"{g.metric} {s.references[g.reference].title} ({g.diagram}): {fmt(d.gamut.vs[g.reference][k], 1)} %"
+            if g.metric.startswith("volume"):
+                k = "volume_coverage" if g.metric == "volume-coverage" else "volume_ratio"
+                v = ((d.gamut.volume or {}).get("vs", {}).get(g.reference) or {}).get(k)
+            else:
+                k = f"{'coverage' if g.metric == 'coverage' else 'area_ratio'}_{g.diagram}"
+                v = d.gamut.vs[g.reference][k]
+            key = f"{g.metric} {s.references[g.reference].title} ({g.diagram}): {fmt(v, 1)} %"
         items.append({"id": s.id, "title": s.title, "product": s.product, "revision": s.revision,
                       "status": s.status, "family": s.family or s.product, "verdict": a.verdict,
                       "symbol": {"pass": "✓", "fail": "✗", "indeterminate": "?"}[a.verdict],

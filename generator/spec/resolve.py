@@ -292,6 +292,16 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems)
             r.error(["gamut", i], "expected primaries to assess this gamut requirement on, found none",
                     "add a primaries: section, or remove the requirement")
             continue
+        if g["metric"].startswith("volume"):
+            if len(primaries) != 3 or white is None:
+                r.error(["gamut", i, "metric"], f"expected three primaries and a white for a CIELAB {g['metric']} "
+                        f"requirement, found {len(primaries)} primaries{'' if white else ' and no white'}",
+                        "the CIELAB volume is that of an additive RGB display with its white")
+                continue
+            if not np.all(np.isfinite(references[ref].white)):
+                r.error(["gamut", i, "reference"], f"expected a named reference space for a CIELAB volume, "
+                        f"found spec '{ref}'", "volumes compare with reference spaces that state a white")
+                continue
         gamut.append(GamutRequirement(i, ref, g["metric"], g["diagram"], g.get("min"), g.get("max"),
                                       g.get("note", "")))
 

@@ -225,7 +225,16 @@ def _gamut_requirement(node, path, problems):
     if "min" in v and "max" in v and v["min"] > v["max"]:
         problems.error(node.mark, path, f"expected min <= max, found min {v['min']:g} > max {v['max']:g}")
         return INVALID
-    v.setdefault("diagram", "xy")
+    volume = v["metric"].startswith("volume")
+    if volume and v.get("diagram", "lab") != "lab":
+        problems.error(node.items["diagram"].mark, f"{path}.diagram", f"expected lab for a {v['metric']} "
+                       f"requirement, found {v['diagram']}", "gamut volumes are taken in CIELAB; leave diagram out")
+        return INVALID
+    if not volume and v.get("diagram") == "lab":
+        problems.error(node.items["diagram"].mark, f"{path}.diagram", f"expected xy or uv for a {v['metric']} "
+                       "requirement, found lab", "lab is for metric: volume or volume-coverage")
+        return INVALID
+    v.setdefault("diagram", "lab" if volume else "xy")
     return v
 
 
@@ -234,8 +243,11 @@ _GAMUT_RECORD = Record({
                             pattern_help="a reference name such as bt2020 or a spec id"), True,
                        "one of " + ", ".join(REFERENCE_NAMES) + ", or another spec's id"),
     "metric": Field(Text("coverage: share of the reference inside the gamut; area-ratio: gamut "
-                         "area over reference area", choices=("coverage", "area-ratio")), True),
-    "diagram": Field(Text("xy: CIE 1931; uv: CIE 1976 u'v' (default xy)", choices=("xy", "uv"))),
+                         "area over reference area; volume: CIELAB gamut volume over the reference's; "
+                         "volume-coverage: share of the reference's CIELAB volume inside the gamut",
+                         choices=("coverage", "area-ratio", "volume", "volume-coverage")), True),
+    "diagram": Field(Text("xy: CIE 1931; uv: CIE 1976 u'v' (default xy); lab: CIELAB, the only one "
+                          "(and the default) for volume metrics", choices=("xy", "uv", "lab"))),
     "min": Field(Number("lowest allowed value, percent", minimum=0.0, unit="%")),
     "max": Field(Number("highest allowed value, percent", minimum=0.0, unit="%")),
     "note": Field(Text("why this requirement exists")),
