@@ -16,7 +16,7 @@ import numpy as np
 
 from .difference import Lab_to_XYZ, XYZ_to_Lab
 
-MESH_N = 64          # quads per cube edge; check-values §9: n = 64 is within 0.1 % of the limit
+MESH_N = 64          # quads per cube edge: n = 64 lies within 0.1 % of the fine-mesh limit
 GRID_STEP = 1.0      # CIELAB units between coverage grid points
 
 
