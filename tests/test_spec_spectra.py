@@ -150,3 +150,28 @@ def test_a_missing_spectra_file_is_an_error(errors):
 def test_a_dark_spectrum_is_an_error(errors):
     got = errors(HEAD + "{spectrum: {start: 380, step: 10, values: [0, 0, 0, 0]}}\n")
     assert got[0].startswith("s.yaml:4:22: white.target.spectrum: expected a spectrum with visible power")
+
+
+def test_a_narrow_irregular_spectrum_resolves_despite_spline_ringing(spec_dir):
+    # a 590 nm band sampled irregularly: the cubic spline rings below zero beside the peak,
+    # which would put x + y above 1; negative values count as zero
+    wl = np.array([380, 390, 402, 415, 430, 450, 470, 490, 510, 525, 540, 560, 580, 600, 620, 640, 660, 700,
+                   740, 780.0])
+    v = np.exp(-0.5 * ((wl - 590) / 8) ** 2)
+    (spec_dir.dir / "amber.csv").write_text(
+        "wavelength,amber\n" + "\n".join(f"{a:g},{b:.6e}" for a, b in zip(wl, v)) + "\n", encoding="utf-8")
+    spec_dir("a.yaml", """\
+spec: 1
+id: amber
+colours:
+  amber:
+    target: {spectrum: {file: amber.csv, channel: amber}}
+    tolerance: {dominant_wavelength: [580, 600]}
+""")
+    (e,), warnings = evaluate(spec_dir.dir)
+    f = e.derived.spectra["colours.amber.target"]
+    assert f["interpolation"] == "cubic-spline"
+    assert f["x"] + f["y"] <= 1.0
+    assert "natural cubic spline" in warnings[0].message
+    (row,) = e.assessment.rows
+    assert row["verdict"] == "pass" and 585 < row["value"] < 592

@@ -145,6 +145,7 @@ def methods(spec) -> list[tuple[str, str]]:
         extra.append(("Spectra", "resampled to 1 nm as CIE 167:2005 recommends (Sprague 1880 for uniform "
                                  "spacing, a natural cubic spline for irregular spacing); integrated per CIE "
                                  "15:2004 eq. 7.1 at 1 nm over 360-830 nm, zero outside the measured range; "
+                                 "negative values (noise, interpolation ringing) set to zero; "
                                  "luminance of radiance spectra with K_m = 683.002 lm/W; FWHM of the highest "
                                  "peak, centroid = Σλ S(λ) / Σ S(λ)"))
     return extra + [

@@ -11,7 +11,7 @@ from ..colour.cct import xy_from_cct_duv
 from ..colour.convert import XYZ_to_xy, uv_prime_to_xy, xy_to_XYZ
 from ..colour.difference import Lab_to_XYZ
 from ..colour.spectrum import luminance as spectrum_luminance
-from ..colour.spectrum import resample_to_1nm, spectrum_XYZ
+from ..colour.spectrum import Resampled, resample_to_1nm, spectrum_XYZ
 from ..measure.spectra_csv import SpectraFileError, parse_spectra_csv
 from ..colour.gamut import convex_hull, polygon_area
 from ..colour.region import in_polygon
@@ -101,6 +101,9 @@ class _Resolver:
             wl = sp["start"] + sp["step"] * np.arange(len(values))
             source = "inline"
         rs = resample_to_1nm(wl, values)
+        # negative spectral power is not physical: measurement noise and interpolation ringing
+        # beside narrow peaks are set to 0 before integrating
+        rs = Resampled(rs.wavelengths, np.clip(rs.values, 0.0, None), rs.method)
         steps = np.diff(wl)
         sampling = (f"{wl[0]:g}-{wl[-1]:g} nm at {steps[0]:g} nm" if np.allclose(steps, steps[0], rtol=1e-6)
                     else f"{wl[0]:g}-{wl[-1]:g} nm, irregular, {len(wl)} points")
