@@ -6,16 +6,16 @@ no YAML, no HTML, no files.
 from __future__ import annotations
 
 from dataclasses import dataclass, field
-from functools import lru_cache
+from functools import cache
 
 import numpy as np
 
 from .colour.cct import cct_duv_from_xy
 from .colour.convert import xy_to_uv_prime, xy_to_XYZ
 from .colour.difference import XYZ_to_Lab
-from .colour.spectrum import centroid_wavelength, fwhm, luminance, peak_wavelength, spectrum_XYZ
 from .colour.gamut import area_ratio, convex_hull, coverage, polygon_area
 from .colour.npm import inverse_npm, npm_from_primaries
+from .colour.spectrum import centroid_wavelength, fwhm, luminance, peak_wavelength, spectrum_XYZ
 from .colour.volume import lab_gamut_volume, lab_volume_coverage
 from .colour.wavelength import dominant_wavelength
 from .model import Spec
@@ -45,7 +45,7 @@ class GamutFigures:
         return d
 
 
-@lru_cache(maxsize=None)
+@cache
 def _reference_volume(primaries: tuple, white: tuple) -> tuple[float, tuple | None]:
     """CIELAB volume of a reference space with its own white, and its NPM (cached: constant)."""
     M = npm_from_primaries(list(primaries), white)

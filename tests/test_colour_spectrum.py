@@ -27,7 +27,7 @@ def test_integration_agrees_with_colour_science(observer, cmfs, peak):
     wl = np.arange(360.0, 831.0)
     v = _led(wl, peak) + 0.05
     ours = sp.spectrum_XYZ(wl, v, observer)
-    sd = colour.SpectralDistribution(dict(zip(wl, v)))
+    sd = colour.SpectralDistribution(dict(zip(wl, v, strict=True)))
     ref = colour.sd_to_XYZ(sd, cmfs, k=1, method="Integration")   # [L] CIE 15 sum, k = 1
     assert np.max(np.abs(ours / ref - 1)) <= LIBRARY_REL
 
@@ -37,7 +37,7 @@ def test_resampled_5nm_spectrum_integrates_like_colour_science_sprague():
     v5 = _led(wl5, 600, 20)
     rs = sp.resample_to_1nm(wl5, v5)
     assert rs.method == "sprague" and rs.wavelengths[0] == 380 and rs.wavelengths[-1] == 780
-    sd = colour.SpectralDistribution(dict(zip(wl5, v5))).interpolate(colour.SpectralShape(380, 780, 1),
+    sd = colour.SpectralDistribution(dict(zip(wl5, v5, strict=True))).interpolate(colour.SpectralShape(380, 780, 1),
                                                                       interpolator=colour.SpragueInterpolator)
     cmfs = CMFS_2.copy().trim(colour.SpectralShape(380, 780, 1))   # zero outside the measured range
     ref = colour.sd_to_XYZ(sd, cmfs, k=1, method="Integration")

@@ -5,8 +5,7 @@ import numpy as np
 import pytest
 
 from generator.colour.npm import npm_from_primaries
-from generator.colour.volume import (cube_surface, lab_gamut_volume, lab_volume_coverage, lightness_slice,
-                                     mesh_volume)
+from generator.colour.volume import cube_surface, lab_gamut_volume, lab_volume_coverage, lightness_slice, mesh_volume
 
 # check values §9 quotes mesh volumes to whole units: half a unit plus float noise
 ROUNDING_UNIT = 0.5 + 1e-6

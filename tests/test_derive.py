@@ -12,7 +12,7 @@ D65 = (0.3127, 0.3290)
 
 def test_colour_figures_cielab_agrees_with_colour_science():
     got = colour_figures([[0.17, 0.70], [0.575, 0.424]], [62, 48], D65, "cie1931-2")
-    for g, (x, y, Y) in zip(got, [(0.17, 0.70, 0.62), (0.575, 0.424, 0.48)]):
+    for g, (x, y, Y) in zip(got, [(0.17, 0.70, 0.62), (0.575, 0.424, 0.48)], strict=True):
         ref = colour.XYZ_to_Lab(colour.xyY_to_XYZ([x, y, Y]), D65)   # [L] white Y = 1
         assert (g["L"], g["a"], g["b"]) == pytest.approx(tuple(ref), abs=1e-9)
         assert g["reference_white"] == {"x": 0.3127, "y": 0.329}

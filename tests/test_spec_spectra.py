@@ -159,7 +159,7 @@ def test_a_narrow_irregular_spectrum_resolves_despite_spline_ringing(spec_dir):
                    740, 780.0])
     v = np.exp(-0.5 * ((wl - 590) / 8) ** 2)
     (spec_dir.dir / "amber.csv").write_text(
-        "wavelength,amber\n" + "\n".join(f"{a:g},{b:.6e}" for a, b in zip(wl, v)) + "\n", encoding="utf-8")
+        "wavelength,amber\n" + "\n".join(f"{a:g},{b:.6e}" for a, b in zip(wl, v, strict=True)) + "\n", encoding="utf-8")
     spec_dir("a.yaml", """\
 spec: 1
 id: amber

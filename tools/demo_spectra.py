@@ -13,8 +13,8 @@ from pathlib import Path
 
 import numpy as np
 
-from generator.colour.spectrum import on_cmf_grid, spectrum_XYZ
 from generator.colour.spectral import K_M
+from generator.colour.spectrum import spectrum_XYZ
 
 WL = np.arange(380.0, 781.0, 5.0)
 FINE = np.arange(380.0, 781.0, 1.0)

@@ -6,7 +6,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..colour.convert import delta_uv_prime, xy_to_uv_prime
-from ..colour.difference import delta_e_2000, delta_e_76
+from ..colour.difference import delta_e_76, delta_e_2000
 from ..colour.macadam import macadam_metric, macadam_steps, metric_axes
 from ..colour.region import distance_to_polygon_edges, ellipse_radius, in_polygon
 from ..derive import Derived
@@ -14,7 +14,8 @@ from ..model import Spec, Tolerance
 from .rules import FAIL, SIMPLE, DecisionRule, combine, decide, margin
 
 UNITS = {"delta_uv": "", "cct": "K", "duv": "", "box": "", "ellipse": "", "region": "",
-         "luminance": "cd/m2", "coverage": "%", "area-ratio": "%", "volume": "%", "volume-coverage": "%", "delta_e2000": "", "delta_e76": "",
+         "luminance": "cd/m2", "coverage": "%", "area-ratio": "%", "volume": "%", "volume-coverage": "%",
+         "delta_e2000": "", "delta_e76": "",
          "dominant_wavelength": "nm", "excitation_purity": "", "macadam_steps": "steps"}
 
 

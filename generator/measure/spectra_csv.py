@@ -70,7 +70,7 @@ def parse_spectra_csv(text: str) -> SpectraTable:
             col += len(c) + 1
         table.append(vals)
     wl = [r[0] for r in table]
-    for (n, _), a, b in zip(rows[1:], wl, wl[1:]):
+    for (n, _), a, b in zip(rows[1:], wl, wl[1:], strict=False):
         if b <= a:
             raise SpectraFileError(n, 1, f"expected wavelengths that increase, found {b:g} after {a:g}")
     return SpectraTable(tuple(wl), {name: tuple(r[i] for r in table) for i, name in enumerate(names) if i > 0})

@@ -230,7 +230,7 @@ def volume_slices(slices, spec_label: str, reference_label: str):
     """Cross-sections of two CIELAB gamut solids at fixed lightness: ``slices`` of
     (L, A, B, inside_spec, inside_reference) grids, drawn as a*b* outlines."""
     fig, axes = plt.subplots(2, 3, figsize=(7.8, 5.4), sharex=True, sharey=True)
-    for ax, (L, A, B, spec_in, ref_in) in zip(axes.ravel(), slices):
+    for ax, (L, A, B, spec_in, ref_in) in zip(axes.ravel(), slices, strict=True):
         for mask, colour, ls in ((ref_in, "#6b6b6b", (0, (4, 2))), (spec_in, PALETTE["gamut"], "-")):
             if mask.any() and not mask.all():
                 ax.contour(A, B, mask.astype(float), levels=[0.5], colors=[colour], linestyles=[ls],

@@ -53,7 +53,8 @@ def fmt(v, digits: int = 4) -> str:
 
 
 _DIGITS = {"cct": 0, "duv": 4, "delta_uv": 4, "box": 4, "ellipse": 2, "region": 4,
-           "luminance": 1, "coverage": 1, "area-ratio": 1, "volume": 1, "volume-coverage": 1, "delta_e2000": 2, "delta_e76": 2,
+           "luminance": 1, "coverage": 1, "area-ratio": 1, "volume": 1, "volume-coverage": 1,
+           "delta_e2000": 2, "delta_e76": 2,
            "dominant_wavelength": 1, "excitation_purity": 3,
            "macadam_steps": 2}
 
@@ -129,6 +130,10 @@ def methods(spec) -> list[tuple[str, str]]:
             ("Colours: dominant wavelength", "CIE 15:2004 §9.1, relative to each colour's reference white, or "
                                              "to the equal-energy white E (x = y = 1/3) where none is stated"),
         ]
+    if spec.observer != "cie1931-2":
+        extra.append(("Observer and CCT", "chromaticities, the spectral locus, dominant wavelengths and spectra "
+                                          "follow the spec's observer; the Planckian locus, isotherms and "
+                                          "CCT / Duv are computed with the CIE 1931 2° observer"))
     tols = [spec.white.tolerance] if spec.white else []
     tols += [p.tolerance for p in spec.primaries] + [c.tolerance for c in spec.colours]
     if any(t.macadam_steps is not None for t in tols):

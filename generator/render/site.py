@@ -8,11 +8,10 @@ import numpy as np
 from ..colour.macadam import macadam_metric, metric_axes
 from ..colour.npm import npm_from_primaries
 from ..colour.volume import lightness_slice
+from ..data import OBSERVERS
 from ..publish import SiteFiles
 from . import figures as F
-from .pages import (CAUTION, CAUTION_CATEGORIES, environment, fmt, methods, render_markdown, row_view,
-                    templates_dir)
-from ..data import OBSERVERS
+from .pages import CAUTION, CAUTION_CATEGORIES, environment, fmt, methods, render_markdown, row_view, templates_dir
 from .results import dumps
 
 
@@ -61,7 +60,7 @@ def layer_for(e, which: str) -> F.Layer:
     for u in spec.units:
         for name, m in u.primaries.items():
             units.append((u.serial, m.xy, unit_verdicts[u.serial]))
-        for name, m in u.colours.items():
+        for m in u.colours.values():
             units.append((u.serial, m.xy, unit_verdicts[u.serial]))
         if u.white is not None:
             units.append((u.serial, u.white.xy, unit_verdicts[u.serial]))
@@ -183,7 +182,8 @@ def spec_context(e, figs) -> dict:
                   "indeterminate": "?"}[u["verdict"]]) for u in a.units],
         "unit_rows": [r for r in rows if r["sample"] is not None],
         "lots": a.lots,
-        "white": white, "primaries": prims, "colours": colours, "spectra": spectra, "gamut": gamut, "npm": npm, "npm_inverse": npm_inv,
+        "white": white, "primaries": prims, "colours": colours, "spectra": spectra, "gamut": gamut,
+        "npm": npm, "npm_inverse": npm_inv,
         "notes_html": render_markdown(spec.notes) if spec.notes else "",
         "methods": methods(spec),
         "caution": CAUTION if spec.category in CAUTION_CATEGORIES else "",

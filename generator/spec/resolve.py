@@ -10,14 +10,25 @@ import numpy as np
 from ..colour.cct import xy_from_cct_duv
 from ..colour.convert import XYZ_to_xy, uv_prime_to_xy, xy_to_XYZ
 from ..colour.difference import Lab_to_XYZ
-from ..colour.spectrum import luminance as spectrum_luminance
-from ..colour.spectrum import Resampled, resample_to_1nm, spectrum_XYZ
-from ..measure.spectra_csv import SpectraFileError, parse_spectra_csv
 from ..colour.gamut import convex_hull, polygon_area
 from ..colour.region import in_polygon
+from ..colour.spectrum import Resampled, resample_to_1nm, spectrum_XYZ
+from ..colour.spectrum import luminance as spectrum_luminance
 from ..colour.wavelength import outside_locus_distance
 from ..data import ILLUMINANTS, REFERENCE_SPACES
-from ..model import Colour, GamutRequirement, SpectrumData, Measurement, Primary, ReferenceGamut, Spec, Tolerance, Unit, White
+from ..measure.spectra_csv import SpectraFileError, parse_spectra_csv
+from ..model import (
+    Colour,
+    GamutRequirement,
+    Measurement,
+    Primary,
+    ReferenceGamut,
+    Spec,
+    SpectrumData,
+    Tolerance,
+    Unit,
+    White,
+)
 from .problems import Problems, did_you_mean
 from .schema import RESERVED_COLOUR_NAMES, RESERVED_PRIMARY_NAMES, UNIT_KEYS
 from .yamlnodes import Map, Mark, Node, Seq

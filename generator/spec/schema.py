@@ -171,7 +171,8 @@ def chromaticity(description: str, *, extra: dict[str, Field] | None = None, nam
             problems.error(node.mark, path, f"expected {' or '.join(written)}, found {describe(node)}")
             return INVALID
         keys = set(node.items)
-        form = ("spectrum" if "spectrum" in keys else "xy" if keys & {"x", "y"} else "uv" if keys & {"u_prime", "v_prime"}
+        form = ("spectrum" if "spectrum" in keys else "xy" if keys & {"x", "y"}
+                else "uv" if keys & {"u_prime", "v_prime"}
                 else "cct" if cct and "cct" in keys else "XYZ" if xyz and keys & {"X", "Z"}
                 else "Lab" if lab and keys & {"L", "a", "b"} else None)
         if form is None:
