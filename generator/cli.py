@@ -19,6 +19,10 @@ from . import __version__
 EXIT_PASS, EXIT_FAIL, EXIT_INPUT, EXIT_INTERNAL = 0, 1, 2, 3
 
 
+class _UsageError(Exception):
+    pass
+
+
 class _Parser(argparse.ArgumentParser):
     def error(self, message):  # usage errors exit 2 with a short message
         self.print_usage(sys.stderr)
@@ -38,7 +42,13 @@ def _parser() -> argparse.ArgumentParser:
     c = sub.add_parser("check", help="validate and assess without writing a site")
     c.add_argument("specs", nargs="?", default="specs", help="spec file or folder (default: specs/)")
     c.add_argument("--json", metavar="FILE", help="write results.json here ('-' for standard output)")
-    c.add_argument("--junit", metavar="FILE", help="write JUnit XML here")
+    c.add_argument("--junit", metavar="FILE", help="write JUnit XML here ('-' for standard output)")
+    c.add_argument("--annotations", action="store_true",
+                   help="print CI annotations (::error file=...,line=...::message) on standard output")
+    c.add_argument("--annotations-limit", type=int, default=None, metavar="N",
+                   help="at most N annotations of each kind, then a summary line (default: 10)")
+    c.add_argument("--strict", action="store_true",
+                   help="warnings and indeterminate verdicts count as failures (exit 1)")
     sc = sub.add_parser("schema", help="write the JSON Schema (draft-07) of the spec format")
     sc.add_argument("-o", "--output", default="-", help="file to write ('-' for standard output)")
     n = sub.add_parser("new", help="write a commented starter spec")
@@ -74,11 +84,37 @@ def _write_out(path: str, text: str) -> None:
         Path(path).write_text(text, encoding="utf-8")
 
 
+def _annotations(args, problems, evaluated=()) -> None:
+    from .render import annotations as A
+    from .spec.locate import locate_row
+
+    items = [A.from_problem(p) for p in problems]
+    for e in evaluated:
+        for row in e.assessment.rows:
+            if row["verdict"] != "pass":
+                items.append(A.from_row(e.spec, row, locate_row(e.spec.source, row)))
+    limit = A.DEFAULT_LIMIT if args.annotations_limit is None else args.annotations_limit
+    sys.stdout.write(A.render(items, limit))
+
+
 def cmd_check(args) -> int:
     from .build import check
     from .render.results import dumps
+    from .spec.problems import InputError
 
-    summary = check(Path(args.specs))
+    to_stdout = [name for name, v in (("--json", args.json), ("--junit", args.junit),
+                                       ("--annotations", "-" if args.annotations else None)) if v == "-"]
+    if len(to_stdout) > 1:
+        raise _UsageError(f"{' and '.join(to_stdout)} cannot both write to standard output; "
+                          "give a FILE for all but one")
+    if args.annotations_limit is not None and args.annotations_limit < 0:
+        raise _UsageError("--annotations-limit: expected a number >= 0")
+    try:
+        summary = check(Path(args.specs))
+    except InputError as e:
+        if args.annotations:
+            _annotations(args, e.problems)
+        raise
     for w in summary.warnings:
         print(w.format(), file=sys.stderr)
     if args.json:
@@ -87,8 +123,18 @@ def cmd_check(args) -> int:
         from .render.junit import junit_xml
 
         _write_out(args.junit, junit_xml(summary.results))
-    print(f"Checked {_verdict_line(summary)} in {summary.seconds:.2f} s", file=sys.stderr)
-    return summary.exit_code
+    if args.annotations:
+        _annotations(args, summary.warnings, summary.evaluated)
+    code = summary.exit_code
+    strict_note = ""
+    if args.strict and code == EXIT_PASS:
+        n_ind = sum(e.assessment.verdict == "indeterminate" for e in summary.evaluated)
+        if summary.warnings or n_ind:
+            code = EXIT_FAIL
+            strict_note = (f"; --strict: {len(summary.warnings)} warning(s) and {n_ind} indeterminate "
+                           "spec(s) count as failures")
+    print(f"Checked {_verdict_line(summary)} in {summary.seconds:.2f} s{strict_note}", file=sys.stderr)
+    return code
 
 
 def cmd_build(args) -> int:
@@ -125,6 +171,9 @@ def main(argv: list[str] | None = None) -> int:
         return {"build": cmd_build, "check": cmd_check, "new": cmd_new, "schema": cmd_schema}[args.command](args)
     except InputError as e:
         _report_problems(e.problems)
+        return EXIT_INPUT
+    except _UsageError as e:
+        print(f"colourspec: error: {e}", file=sys.stderr)
         return EXIT_INPUT
     except PublishError as e:
         print(f"colourspec: {e}", file=sys.stderr)

@@ -159,6 +159,7 @@ def load_specs(specs: Path):
     for file, (_, node, v) in values.items():
         spec = resolve_spec(file, node, v, by_id, problems)
         if spec is not None:
+            spec.source = node
             result.append(spec)
     if problems.errors:
         raise InputError(problems.sorted())
