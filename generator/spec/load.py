@@ -81,7 +81,9 @@ def read_sources(files: list[Path], problems: Problems) -> list[SourceSpec]:
 
 def merge(parent: Node, child: Node, parent_id: str) -> Node:
     """Deep merge for inheritance: mappings merge key by key, the child wins; lists and
-    scalars are replaced whole. Keys taken from the parent remember the parent's id."""
+    scalars are replaced whole. Keys taken whole from the parent remember the id of the
+    spec that wrote them (the parent, or the ancestor it inherited them from); a key the
+    child states, even in part, is not listed: its merged mapping lists its own."""
     if not (isinstance(parent, Map) and isinstance(child, Map)):
         return child
     items = dict(parent.items)
@@ -90,9 +92,25 @@ def merge(parent: Node, child: Node, parent_id: str) -> Node:
     for k, v in child.items.items():
         items[k] = merge(parent.items[k], v, parent_id) if k in parent.items else v
         marks[k] = child.key_marks[k]
-        if not (isinstance(v, Map) and k in parent.items):
-            inherited.pop(k, None)
+        inherited.pop(k, None)
     return Map(items, marks, child.mark, inherited)
+
+
+def inherited_paths(node: Node, prefix: str = "", source: str | None = None) -> dict[str, str]:
+    """Every value of a merged spec that was inherited: dotted key path -> the id of the
+    spec that wrote it, at the shallowest level where one ancestor wrote all of it."""
+    if not isinstance(node, Map):
+        return {}
+    out: dict[str, str] = {}
+    for k, v in node.items.items():
+        path = f"{prefix}{k}"
+        src = node.inherited.get(k, source)
+        sub = inherited_paths(v, path + ".", src) if isinstance(v, Map) and v.items else {}
+        if src is not None and (not sub or set(sub.values()) == {src}):
+            out[path] = src
+        else:
+            out.update(sub)
+    return out
 
 
 def apply_inheritance(sources: list[SourceSpec], problems: Problems) -> dict[str, Node]:
@@ -160,6 +178,7 @@ def load_specs(specs: Path):
         spec = resolve_spec(file, node, v, by_id, problems)
         if spec is not None:
             spec.source = node
+            spec.inherited = {k: v for k, v in inherited_paths(node).items() if k != "spec"}
             result.append(spec)
     if problems.errors:
         raise InputError(problems.sorted())
