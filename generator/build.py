@@ -40,13 +40,17 @@ class Summary:
         return 1 if self.failing else 0
 
 
-def evaluate(specs_path: Path) -> tuple[list[Evaluated], list]:
-    specs, warnings = load_specs(specs_path)
+def evaluate_specs(specs: list[Spec]) -> list[Evaluated]:
     out = []
     for spec in specs:
         d = derive(spec)
         out.append(Evaluated(spec, d, assess(spec, d)))
-    return out, warnings
+    return out
+
+
+def evaluate(specs_path: Path) -> tuple[list[Evaluated], list]:
+    specs, warnings = load_specs(specs_path)
+    return evaluate_specs(specs), warnings
 
 
 def results_of(evaluated: list[Evaluated]) -> dict:

@@ -1,4 +1,4 @@
-"""Command line: colourspec build | check | schema | new.
+"""Command line: colourspec build | check | diff | schema | new.
 
 Exit status of `check` (and of `build --gate`): 0 every assessed requirement passes;
 1 at least one fails; 2 invalid input or usage; 3 an internal error (a bug: please
@@ -49,6 +49,14 @@ def _parser() -> argparse.ArgumentParser:
                    help="at most N annotations of each kind, then a summary line (default: 10)")
     c.add_argument("--strict", action="store_true",
                    help="warnings and indeterminate verdicts count as failures (exit 1)")
+    d = sub.add_parser("diff", help="what changed between two spec folders or two git revisions",
+                       description="Compare targets, tolerances, requirements and verdicts of two spec "
+                                   "folders (OLD NEW) or of the specs folder at two git revisions "
+                                   "(--git REV1..REV2 [SPECS]; REV1.. compares with the working folder).")
+    d.add_argument("paths", nargs="*", metavar="PATH", help="OLD NEW folders, or with --git the specs folder")
+    d.add_argument("--git", metavar="REV1..REV2", help="compare two revisions of SPECS (default specs/)")
+    d.add_argument("--format", choices=("text", "md"), default="text", help="text (default) or Markdown")
+    d.add_argument("-o", "--output", default="-", help="file to write ('-' for standard output)")
     sc = sub.add_parser("schema", help="write the JSON Schema (draft-07) of the spec format")
     sc.add_argument("-o", "--output", default="-", help="file to write ('-' for standard output)")
     n = sub.add_parser("new", help="write a commented starter spec")
@@ -149,6 +157,34 @@ def cmd_build(args) -> int:
     return summary.exit_code if args.gate else EXIT_PASS
 
 
+def cmd_diff(args) -> int:
+    from . import diff as D
+
+    try:
+        if args.git:
+            rev_a, sep, rev_b = args.git.partition("..")
+            if not sep or not rev_a or rev_b.startswith("."):
+                raise _UsageError("--git: expected REV1..REV2 (or REV1.. for the working folder), "
+                                  f"found {args.git!r}")
+            if len(args.paths) > 1:
+                raise _UsageError("with --git give at most one path: the specs folder")
+            specs = args.paths[0] if args.paths else "specs"
+            old, new = D.side(specs, rev_a), D.side(specs, rev_b or None)
+            labels = (rev_a, rev_b or "working folder")
+        else:
+            if len(args.paths) != 2:
+                raise _UsageError("expected two spec folders, OLD NEW (or --git REV1..REV2)")
+            old, new = D.side(args.paths[0]), D.side(args.paths[1])
+            labels = tuple(args.paths)
+    except D.DiffError as e:
+        raise _UsageError(str(e)) from None
+    diffs = D.compare(old, new)
+    report = D.markdown_report if args.format == "md" else D.text_report
+    _write_out(args.output, report(diffs, *labels))
+    print(f"Compared {len(old)} and {len(new)} specs: {D._counts(diffs)}", file=sys.stderr)
+    return EXIT_PASS
+
+
 def cmd_schema(args) -> int:
     from .docs import json_schema_text
 
@@ -168,7 +204,8 @@ def main(argv: list[str] | None = None) -> int:
 
     args = _parser().parse_args(argv)
     try:
-        return {"build": cmd_build, "check": cmd_check, "new": cmd_new, "schema": cmd_schema}[args.command](args)
+        return {"build": cmd_build, "check": cmd_check, "diff": cmd_diff, "new": cmd_new,
+                "schema": cmd_schema}[args.command](args)
     except InputError as e:
         _report_problems(e.problems)
         return EXIT_INPUT

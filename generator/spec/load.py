@@ -49,16 +49,23 @@ def discover(specs: Path, problems: Problems) -> list[Path]:
     return files
 
 
-def read_sources(files: list[Path], problems: Problems) -> list[SourceSpec]:
-    out: list[SourceSpec] = []
-    seen: dict[str, SourceSpec] = {}
+def read_files(files: list[Path], problems: Problems) -> list[tuple[str, bytes]]:
+    """(name shown to people, bytes) of every file that can be read."""
+    out = []
     for path in files:
         shown = display_path(path)
         try:
-            data = path.read_bytes()
+            out.append((shown, path.read_bytes()))
         except OSError as e:
             problems.error(Mark(shown, 1, 1), "", f"cannot read the file: {e.strerror}")
-            continue
+    return out
+
+
+def read_sources(documents: list[tuple[str, bytes]], problems: Problems) -> list[SourceSpec]:
+    out: list[SourceSpec] = []
+    seen: dict[str, SourceSpec] = {}
+    for shown, data in documents:
+        path = Path(shown)
         node = parse_yaml(data, shown, problems)
         if node is None:
             continue
@@ -158,11 +165,18 @@ def apply_inheritance(sources: list[SourceSpec], problems: Problems) -> dict[str
 
 def load_specs(specs: Path):
     """Return (list of Spec, warnings) or raise InputError with every problem found."""
+    problems = Problems()
+    documents = read_files(discover(specs, problems), problems)
+    return load_documents(documents, problems)
+
+
+def load_documents(documents: list[tuple[str, bytes]], problems: Problems | None = None):
+    """load_specs for files already in memory, e.g. read from a git revision: a list of
+    (file name as shown to people, bytes)."""
     from .resolve import resolve_spec
 
-    problems = Problems()
-    files = discover(specs, problems)
-    sources = read_sources(files, problems)
+    problems = problems if problems is not None else Problems()
+    sources = read_sources(documents, problems)
     merged = apply_inheritance(sources, problems)
     values = {}
     for src in sources:
