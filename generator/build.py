@@ -30,6 +30,7 @@ class Summary:
     pages: int = 0
     figures: int = 0
     seconds: float = 0.0
+    reused: int = 0      # spec pages taken from the incremental-build cache
 
     @property
     def failing(self) -> list[str]:
@@ -65,13 +66,21 @@ def check(specs_path: Path) -> Summary:
     return Summary(evaluated, warnings, results_of(evaluated), seconds=time.perf_counter() - t0)
 
 
-def build(specs_path: Path, out: Path) -> Summary:
+def build(specs_path: Path, out: Path, *, clean: bool = False, incremental: bool = True) -> Summary:
+    """Build the site into ``out``. Unless ``incremental`` is off, reuse the diagrams and
+    pages of unchanged specs from the cache beside ``out``; ``clean`` empties it first."""
+    from .cache import Cache, cache_dir_for
     from .publish import publish
     from .render.site import render_site
 
     t0 = time.perf_counter()
     evaluated, warnings = evaluate(specs_path)
     results = results_of(evaluated)
-    site, n_pages, n_figures = render_site(evaluated, results)
+    cache = Cache(cache_dir_for(out), clean=clean) if incremental else None
+    site, n_pages, n_figures = render_site(evaluated, results, cache)
     publish(site, out)
-    return Summary(evaluated, warnings, results, n_pages, n_figures, time.perf_counter() - t0)
+    if cache is not None:
+        cache.prune()
+    summary = Summary(evaluated, warnings, results, n_pages, n_figures, time.perf_counter() - t0)
+    summary.reused = cache.hits if cache is not None else 0
+    return summary

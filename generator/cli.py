@@ -39,6 +39,8 @@ def _parser() -> argparse.ArgumentParser:
     b.add_argument("-o", "--output", default="site_output", help="site folder (default: site_output/)")
     b.add_argument("--gate", action="store_true",
                    help="exit 1 when a requirement fails, as check does (default: 0 once the site is written)")
+    b.add_argument("--clean", action="store_true",
+                   help="full build: empty the incremental-build cache (.OUT.cache/ beside OUT) first")
     c = sub.add_parser("check", help="validate and assess without writing a site")
     c.add_argument("specs", nargs="?", default="specs", help="spec file or folder (default: specs/)")
     c.add_argument("--json", metavar="FILE", help="write results.json here ('-' for standard output)")
@@ -148,12 +150,14 @@ def cmd_check(args) -> int:
 def cmd_build(args) -> int:
     from .build import build
 
-    summary = build(Path(args.specs), Path(args.output))
+    summary = build(Path(args.specs), Path(args.output), clean=args.clean)
     for w in summary.warnings:
         print(w.format(), file=sys.stderr)
     out = args.output.rstrip("/") + "/"
-    print(f"Built {summary.pages - 1} spec pages and {summary.figures} diagrams into {out} in "
-          f"{summary.seconds:.1f} s ({_verdict_line(summary)}); open {out}index.html")
+    n_spec = summary.pages - 1
+    reused = f"; {summary.reused} unchanged pages reused" if summary.reused else ""
+    print(f"Built {n_spec} spec pages and {summary.figures} diagrams into {out} in "
+          f"{summary.seconds:.1f} s ({_verdict_line(summary)}{reused}); open {out}index.html")
     return summary.exit_code if args.gate else EXIT_PASS
 
 

@@ -100,3 +100,4 @@ class Spec:
     warnings: list = field(default_factory=list)             # Problem, severity "warning"
     # the merged source node (after inheritance), for locating rows in the YAML; not compared
     source: object = field(default=None, repr=False, compare=False)
+    digest: str = ""   # sha256 of the spec file's bytes (the incremental build's cache key)

@@ -175,7 +175,10 @@ def load_documents(documents: list[tuple[str, bytes]], problems: Problems | None
     (file name as shown to people, bytes)."""
     from .resolve import resolve_spec
 
+    import hashlib
+
     problems = problems if problems is not None else Problems()
+    digests = {shown: hashlib.sha256(data).hexdigest() for shown, data in documents}
     sources = read_sources(documents, problems)
     merged = apply_inheritance(sources, problems)
     values = {}
@@ -192,6 +195,7 @@ def load_documents(documents: list[tuple[str, bytes]], problems: Problems | None
         spec = resolve_spec(file, node, v, by_id, problems)
         if spec is not None:
             spec.source = node
+            spec.digest = digests.get(file, "")
             spec.inherited = {k: v for k, v in inherited_paths(node).items() if k != "spec"}
             result.append(spec)
     if problems.errors:
