@@ -51,6 +51,9 @@ def _parser() -> argparse.ArgumentParser:
                    help="at most N annotations of each kind, then a summary line (default: 10)")
     c.add_argument("--strict", action="store_true",
                    help="warnings and indeterminate verdicts count as failures (exit 1)")
+    c.add_argument("--no-gate", action="store_true",
+                   help="exit 0 even when requirements fail: only invalid input fails (exit 2), "
+                        "e.g. for a pre-commit hook")
     d = sub.add_parser("diff", help="what changed between two spec folders or two git revisions",
                        description="Compare targets, tolerances, requirements and verdicts of two spec "
                                    "folders (OLD NEW) or of the specs folder at two git revisions "
@@ -144,7 +147,7 @@ def cmd_check(args) -> int:
             strict_note = (f"; --strict: {len(summary.warnings)} warning(s) and {n_ind} indeterminate "
                            "spec(s) count as failures")
     print(f"Checked {_verdict_line(summary)} in {summary.seconds:.2f} s{strict_note}", file=sys.stderr)
-    return code
+    return EXIT_PASS if args.no_gate else code
 
 
 def cmd_build(args) -> int:

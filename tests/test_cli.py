@@ -203,3 +203,27 @@ def test_two_machine_outputs_on_stdout_are_a_usage_error(spec_dir):
     r = run("check", str(spec_dir.dir), "--json", "-", "--annotations")
     assert r.returncode == 2
     assert "--json and --annotations cannot both write to standard output" in r.stderr
+
+
+def test_no_gate_passes_failing_verdicts_but_not_invalid_input(spec_dir):
+    spec_dir("tiny.yaml", PASSING.replace("min: 99", "min: 101, max: 120").replace("metric: coverage",
+                                                                                  "metric: area-ratio"))
+    assert run("check", str(spec_dir.dir)).returncode == 1
+    assert run("check", str(spec_dir.dir), "--no-gate").returncode == 0
+    spec_dir("tiny.yaml", PASSING.replace("status: draft", "status: no"))
+    assert run("check", str(spec_dir.dir), "--no-gate").returncode == 2
+
+
+def test_pre_commit_hooks_run_check_on_the_specs_folder():
+    import shlex
+
+    import yaml
+
+    hooks = {h["id"]: h for h in yaml.safe_load((ROOT / ".pre-commit-hooks.yaml").read_text(encoding="utf-8"))}
+    assert sorted(hooks) == ["colourspec-check", "colourspec-validate"]
+    for h in hooks.values():
+        assert {"id", "name", "entry", "language"} <= set(h)
+        assert h["pass_filenames"] is False and h["language"] == "python"
+        argv = shlex.split(h["entry"])[1:] + h["args"]
+        r = run(*argv)  # the demo specs: valid, with failing units on purpose
+        assert r.returncode == (0 if h["id"] == "colourspec-validate" else 1), r.stderr
