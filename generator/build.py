@@ -66,9 +66,11 @@ def check(specs_path: Path) -> Summary:
     return Summary(evaluated, warnings, results_of(evaluated), seconds=time.perf_counter() - t0)
 
 
-def build(specs_path: Path, out: Path, *, clean: bool = False, incremental: bool = True) -> Summary:
+def build(specs_path: Path, out: Path, *, clean: bool = False, incremental: bool = True,
+          history: bool = False) -> Summary:
     """Build the site into ``out``. Unless ``incremental`` is off, reuse the diagrams and
-    pages of unchanged specs from the cache beside ``out``; ``clean`` empties it first."""
+    pages of unchanged specs from the cache beside ``out``; ``clean`` empties it first.
+    With ``history``, each spec page lists the git commits that changed its file."""
     from .cache import Cache, cache_dir_for
     from .publish import publish
     from .render.site import render_site
@@ -76,8 +78,13 @@ def build(specs_path: Path, out: Path, *, clean: bool = False, incremental: bool
     t0 = time.perf_counter()
     evaluated, warnings = evaluate(specs_path)
     results = results_of(evaluated)
+    histories = None
+    if history:
+        from .history import spec_histories
+
+        histories = spec_histories(specs_path)
     cache = Cache(cache_dir_for(out), clean=clean) if incremental else None
-    site, n_pages, n_figures = render_site(evaluated, results, cache)
+    site, n_pages, n_figures = render_site(evaluated, results, cache, histories)
     publish(site, out)
     if cache is not None:
         cache.prune()

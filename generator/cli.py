@@ -41,6 +41,8 @@ def _parser() -> argparse.ArgumentParser:
                    help="exit 1 when a requirement fails, as check does (default: 0 once the site is written)")
     b.add_argument("--clean", action="store_true",
                    help="full build: empty the incremental-build cache (.OUT.cache/ beside OUT) first")
+    b.add_argument("--no-history", action="store_true",
+                   help="leave out the per-spec git history (shown when the specs are in a git repository)")
     c = sub.add_parser("check", help="validate and assess without writing a site")
     c.add_argument("specs", nargs="?", default="specs", help="spec file or folder (default: specs/)")
     c.add_argument("--json", metavar="FILE", help="write results.json here ('-' for standard output)")
@@ -153,7 +155,7 @@ def cmd_check(args) -> int:
 def cmd_build(args) -> int:
     from .build import build
 
-    summary = build(Path(args.specs), Path(args.output), clean=args.clean)
+    summary = build(Path(args.specs), Path(args.output), clean=args.clean, history=not args.no_history)
     for w in summary.warnings:
         print(w.format(), file=sys.stderr)
     out = args.output.rstrip("/") + "/"

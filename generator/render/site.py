@@ -159,17 +159,20 @@ def index_context(evaluated) -> dict:
     return {"items": items, "counts": counts, "root": ""}
 
 
-def spec_files(e, env) -> dict[str, bytes]:
+def spec_files(e, env, history=None) -> dict[str, bytes]:
     """The costly part of a spec's output: its diagrams and its page (name -> bytes)."""
     figs = _figures(e)
     files = {f["file"]: f["svg"].encode("utf-8") for f in figs}
-    files["index.html"] = env.get_template("spec.html").render(**spec_context(e, figs)).encode("utf-8")
+    ctx = spec_context(e, figs)
+    ctx["history"] = [h.as_json() for h in history] if history is not None else None
+    files["index.html"] = env.get_template("spec.html").render(**ctx).encode("utf-8")
     return files
 
 
-def render_site(evaluated, results: dict, cache=None):
+def render_site(evaluated, results: dict, cache=None, histories=None):
     """The whole site in memory; with a cache (generator/cache.py), a spec whose inputs are
-    unchanged takes its diagrams and page from it instead of drawing them again."""
+    unchanged takes its diagrams and page from it instead of drawing them again.
+    ``histories`` (file -> history entries, generator/history.py) adds a history section."""
     from ..cache import spec_key
 
     env = environment()
@@ -177,10 +180,12 @@ def render_site(evaluated, results: dict, cache=None):
     n_fig = 0
     by_id = {e.spec.id: e.spec for e in evaluated}
     for e in evaluated:
-        key = spec_key(e.spec, by_id) if cache is not None else ""
+        history = histories.get(e.spec.file, []) if histories is not None else None
+        extra = json.dumps([h.as_json() for h in history]) if history is not None else ""
+        key = spec_key(e.spec, by_id, extra) if cache is not None else ""
         files = cache.get(key) if cache is not None else None
         if files is None:
-            files = spec_files(e, env)
+            files = spec_files(e, env, history)
             if cache is not None:
                 cache.put(key, files)
         n_fig += sum(name.endswith(".svg") for name in files)
