@@ -15,6 +15,7 @@ from .conftest import DEMO_SPECS
 from .test_diff import GIT_ENV
 
 ATLAS = "corvinta-atlas-27-studio.yaml"
+KEPT = (ATLAS, "corvinta-prism-5-cinema.yaml")
 
 
 def _git(cwd, *args, date="2026-03-01T10:00:00+00:00"):
@@ -27,7 +28,9 @@ def repo(tmp_path, monkeypatch):
     if shutil.which("git") is None:
         pytest.skip("git is not installed")
     r = tmp_path / "repo"
-    shutil.copytree(DEMO_SPECS, r / "specs")
+    (r / "specs").mkdir(parents=True)
+    for name in KEPT:  # two specs keep the builds below short
+        shutil.copy(DEMO_SPECS / name, r / "specs" / name)
     _git(r, "init", "-q", "-b", "main")
     _git(r, "add", "-A")
     _git(r, "commit", "-q", "-m", "Atlas 27 first release")
@@ -68,7 +71,7 @@ def test_a_new_commit_redraws_only_the_page_it_touches(repo, tmp_path):
     p.write_text(p.read_text(encoding="utf-8") + "\n# a comment\n", encoding="utf-8")
     _git(repo, "commit", "-q", "-am", "comment only", date="2026-05-01T00:00:00+00:00")
     s = build(repo / "specs", tmp_path / "site", history=True)
-    assert s.reused == 5
+    assert s.reused == 1
     page = (tmp_path / "site" / "corvinta-prism-5-cinema" / "index.html").read_text(encoding="utf-8")
     assert "no change to any key (layout or comments)" in page
 

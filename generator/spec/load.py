@@ -173,9 +173,9 @@ def load_specs(specs: Path):
 def load_documents(documents: list[tuple[str, bytes]], problems: Problems | None = None):
     """load_specs for files already in memory, e.g. read from a git revision: a list of
     (file name as shown to people, bytes)."""
-    from .resolve import resolve_spec
-
     import hashlib
+
+    from .resolve import resolve_spec
 
     problems = problems if problems is not None else Problems()
     digests = {shown: hashlib.sha256(data).hexdigest() for shown, data in documents}

@@ -22,7 +22,7 @@ def _find_item(seq: Seq, key: str, value: str):
 def _descend(node: Map, parts: list[str], best: Mark) -> Mark:
     """Follow the key path as far as it goes; a missing key is looked up under 'tolerance'
     (a primary's own tolerance, then the default tolerance of every primary)."""
-    for i, part in enumerate(parts):
+    for part in parts:
         if not isinstance(node, Map):
             return best
         if part in node.items:
