@@ -227,3 +227,15 @@ def test_pre_commit_hooks_run_check_on_the_specs_folder():
         argv = shlex.split(h["entry"])[1:] + h["args"]
         r = run(*argv)  # the demo specs: valid, with failing units on purpose
         assert r.returncode == (0 if h["id"] == "colourspec-validate" else 1), r.stderr
+
+
+def test_build_reuses_unchanged_pages_and_clean_draws_everything(spec_dir, tmp_path):
+    spec_dir("tiny.yaml", PASSING)
+    out = tmp_path / "site"
+    first = run("build", str(spec_dir.dir), "-o", str(out))
+    again = run("build", str(spec_dir.dir), "-o", str(out))
+    clean = run("build", str(spec_dir.dir), "-o", str(out), "--clean")
+    assert (first.returncode, again.returncode, clean.returncode) == (0, 0, 0)
+    assert "reused" not in first.stdout and "reused" not in clean.stdout
+    assert "; 1 unchanged pages reused)" in again.stdout
+    assert (tmp_path / ".site.cache").is_dir() and not any((out / n).exists() for n in (".cache", ".site.cache"))

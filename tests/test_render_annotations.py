@@ -58,3 +58,29 @@ def test_no_summary_line_when_nothing_is_left_out():
     items = [A.Annotation("error", "e")] * 3
     assert A.render(items, limit=3).count("\n") == 3
     assert "notice" not in A.render(items, limit=3)
+
+
+class _Spec:
+    id = "tiny-panel"
+    file = "specs/tiny.yaml"
+
+
+def _row(verdict, sample=None):
+    return {"id": "white.cct", "label": "CCT", "subject": "white", "sample": sample, "quantity": "cct",
+            "value": 6271.4, "unit": "K", "limit": {"min": 6300.0, "max": 6800.0}, "margin": -28.6,
+            "verdict": verdict}
+
+
+def test_a_failing_row_is_an_error_at_its_mark_and_says_by_how_much():
+    from generator.spec.yamlnodes import Mark
+
+    a = A.from_row(_Spec, _row("fail", "U1"), Mark("specs/base.yaml", 7, 15))
+    assert (a.severity, a.file, a.line, a.col, a.title) == ("error", "specs/base.yaml", 7, 15,
+                                                            "colourspec white.cct")
+    assert a.message == "tiny-panel: unit U1: CCT is fail: 6271 K against 6300 to 6800 K, outside by 28.6 K"
+
+
+def test_an_indeterminate_row_is_a_warning_and_without_a_mark_names_the_spec_file():
+    a = A.from_row(_Spec, _row("indeterminate"), None)
+    assert (a.severity, a.file, a.line) == ("warning", "specs/tiny.yaml", 0)
+    assert a.format().startswith("::warning file=specs/tiny.yaml,title=colourspec white.cct::tiny-panel: CCT is")
