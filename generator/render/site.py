@@ -6,7 +6,8 @@ import json
 import numpy as np
 
 from ..publish import SiteFiles
-from .pages import CAUTION, CAUTION_CATEGORIES, environment, fmt, methods, render_markdown, row_view, templates_dir
+from .pages import (CAUTION, CAUTION_CATEGORIES, environment, fmt, methods, render_markdown, row_view,
+                    templates_dir)
 from .results import dumps
 
 
