@@ -67,7 +67,7 @@ def flow_map(fields: dict) -> st.SearchStrategy[str]:
     """A flow mapping {k: v, ...} of a random subset of ``fields`` (key -> value strategy)."""
     keys = st.lists(st.sampled_from(sorted(fields)), unique=True, max_size=len(fields))
     return keys.flatmap(lambda ks: st.tuples(*[fields[k] for k in ks]).map(
-        lambda vs, ks=ks: "{" + ", ".join(f"{k}: {v}" for k, v in zip(ks, vs)) + "}"))
+        lambda vs, ks=ks: "{" + ", ".join(f"{k}: {v}" for k, v in zip(ks, vs, strict=True)) + "}"))
 
 
 def flow_list(item: st.SearchStrategy[str], max_size: int = 3) -> st.SearchStrategy[str]:
