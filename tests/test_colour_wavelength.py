@@ -62,7 +62,7 @@ def test_against_colour_science():
                     [0.131, 0.046], [0.5, 0.4], [0.25, 0.3], [0.6, 0.3], [0.4, 0.2], [0.35, 0.15],
                     [0.73, 0.265], [0.2, 0.5], [0.45, 0.41]])
     dom, comp, purity = dominant_wavelength(pts, D65)
-    for p, d, c, e in zip(pts, dom, comp, purity):
+    for p, d, c, e in zip(pts, dom, comp, purity, strict=True):
         ref_wl, _, _ = colour.dominant_wavelength(p, D65, _CMFS)
         if ref_wl < 0:   # colour-science marks a complementary wavelength with a minus sign
             assert np.isnan(d)
