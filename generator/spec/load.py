@@ -25,12 +25,21 @@ class SourceSpec:
     id: str
 
 
-def display_path(path: Path) -> str:
+def display_path(path: Path, root: Path | None = None) -> str:
+    """A spec's name as shown on pages and in results: relative to the working folder
+    when inside it, else relative to the specs folder's parent (``specs/x.yaml``), so that
+    no absolute path of the build machine reaches the published site."""
     try:
         rel = os.path.relpath(path)
     except ValueError:
-        return str(path)
-    return rel if not rel.startswith("..") else str(path)
+        rel = ".."
+    if not rel.startswith(".."):
+        return Path(rel).as_posix()
+    base = (root if root is not None and root.is_dir() else path).resolve().parent
+    try:
+        return Path(path).resolve().relative_to(base).as_posix()
+    except ValueError:
+        return Path(path).name
 
 
 def discover(specs: Path, problems: Problems) -> list[Path]:
@@ -49,11 +58,11 @@ def discover(specs: Path, problems: Problems) -> list[Path]:
     return files
 
 
-def read_sources(files: list[Path], problems: Problems) -> list[SourceSpec]:
+def read_sources(files: list[Path], problems: Problems, root: Path | None = None) -> list[SourceSpec]:
     out: list[SourceSpec] = []
     seen: dict[str, SourceSpec] = {}
     for path in files:
-        shown = display_path(path)
+        shown = display_path(path, root)
         try:
             data = path.read_bytes()
         except OSError as e:
@@ -144,7 +153,7 @@ def load_specs(specs: Path):
 
     problems = Problems()
     files = discover(specs, problems)
-    sources = read_sources(files, problems)
+    sources = read_sources(files, problems, specs)
     merged = apply_inheritance(sources, problems)
     values = {}
     for src in sources:
