@@ -7,7 +7,8 @@ import numpy as np
 
 from ..publish import SiteFiles
 from . import figures as F
-from .pages import CAUTION, CAUTION_CATEGORIES, environment, fmt, methods, render_markdown, row_view, templates_dir
+from .pages import (CAUTION, CAUTION_CATEGORIES, environment, fmt, methods, render_markdown, row_view,
+                    templates_dir)
 from .results import dumps
 
 
