@@ -130,8 +130,8 @@ def spec_histories(specs: Path) -> dict[str, list[Entry]]:
     blobs = _blobs(blob_ids, root)
     out: dict[str, list[Entry]] = {}
     for path, items in changes.items():
-        shown = display_path(Path(os.path.join(root, path)))
-        if specs.is_file() and Path(shown) != Path(display_path(specs)):
+        shown = display_path(Path(os.path.join(root, path)), specs)
+        if specs.is_file() and Path(shown) != Path(display_path(specs, specs)):
             continue
         entries = []
         for commit, date, subject, old, new in items[:MAX_ENTRIES]:

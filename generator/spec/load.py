@@ -25,12 +25,21 @@ class SourceSpec:
     id: str
 
 
-def display_path(path: Path) -> str:
+def display_path(path: Path, root: Path | None = None) -> str:
+    """A spec's name as shown on pages and in results: relative to the working folder
+    when inside it, else relative to the specs folder's parent (``specs/x.yaml``), so that
+    no absolute path of the build machine reaches the published site."""
     try:
         rel = os.path.relpath(path)
     except ValueError:
-        return str(path)
-    return rel if not rel.startswith("..") else str(path)
+        rel = ".."
+    if not rel.startswith(".."):
+        return Path(rel).as_posix()
+    base = (root if root is not None and root.is_dir() else path).resolve().parent
+    try:
+        return Path(path).resolve().relative_to(base).as_posix()
+    except ValueError:
+        return Path(path).name
 
 
 def discover(specs: Path, problems: Problems) -> list[Path]:
@@ -49,11 +58,11 @@ def discover(specs: Path, problems: Problems) -> list[Path]:
     return files
 
 
-def read_files(files: list[Path], problems: Problems) -> list[tuple[str, bytes]]:
+def read_files(files: list[Path], problems: Problems, root: Path | None = None) -> list[tuple[str, bytes]]:
     """(name shown to people, bytes) of every file that can be read."""
     out = []
     for path in files:
-        shown = display_path(path)
+        shown = display_path(path, root)
         try:
             out.append((shown, path.read_bytes()))
         except OSError as e:
@@ -166,7 +175,7 @@ def apply_inheritance(sources: list[SourceSpec], problems: Problems) -> dict[str
 def load_specs(specs: Path):
     """Return (list of Spec, warnings) or raise InputError with every problem found."""
     problems = Problems()
-    documents = read_files(discover(specs, problems), problems)
+    documents = read_files(discover(specs, problems), problems, specs)
     return load_documents(documents, problems)
 
 

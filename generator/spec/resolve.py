@@ -191,7 +191,7 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems)
                                       g.get("note", "")))
 
     units = []
-    names = [p.name for p in primaries]
+    names = [n for n in pv if n not in RESERVED_PRIMARY_NAMES]  # declared, even if one failed a check
     seen_serials: dict[str, int] = {}
     for i, u in enumerate(v.get("units", [])):
         serial = u["serial"]
