@@ -136,5 +136,10 @@ class Spec:
     references: dict[str, ReferenceGamut]   # every named space plus specs named by gamut rows
     colours: list[Colour] = field(default_factory=list)
     spectra: list[SpectrumData] = field(default_factory=list)
-    inherited: dict[str, str] = field(default_factory=dict)  # top-level key -> ancestor id
+    inherited: dict[str, str] = field(default_factory=dict)  # dotted key path -> ancestor id
     warnings: list = field(default_factory=list)             # Problem, severity "warning"
+    # the merged source node (after inheritance), for locating rows in the YAML; not compared
+    source: object = field(default=None, repr=False, compare=False)
+    digest: str = ""   # sha256 of the spec file's bytes (the incremental build's cache key)
+    # the other files the spec was read from (spectra CSV files), as written -> sha256 of their bytes
+    input_files: dict[str, str] = field(default_factory=dict, compare=False)

@@ -3,6 +3,7 @@ and the physical checks (inside the spectral locus, primaries that span an area,
 white inside the gamut)."""
 from __future__ import annotations
 
+import hashlib
 from pathlib import Path
 
 import numpy as np
@@ -83,13 +84,17 @@ def _tolerance(v: dict | None) -> Tolerance:
 
 
 class _Resolver:
-    def __init__(self, file: str, node: Map, problems: Problems, observer: str = "cie1931-2"):
+    def __init__(self, file: str, node: Map, problems: Problems, observer: str = "cie1931-2",
+                 folder: Path | None = None):
         self.file, self.node, self.problems = file, node, problems
+        # the folder the spec file is in on disk (its shown name need not lead there)
+        self.folder = folder if folder is not None else Path(file).parent
         self.observer = observer
         self.ok = True
         self.spectra: dict[str, SpectrumData] = {}    # dotted path -> spectrum
         self.luminance: dict[str, float] = {}         # dotted path -> cd/m² of a radiance spectrum
         self._tables: dict[str, object] = {}
+        self.files: dict[str, str] = {}               # spectra file as written -> sha256 of its bytes
         self._warned: set[str] = set()
 
     def spectrum_xy(self, v: dict, path: list, label: str, is_white=False, sample=None):
@@ -147,7 +152,7 @@ class _Resolver:
         """A spectra CSV file relative to the spec, refused outside the spec's folder."""
         if name in self._tables:
             return self._tables[name]
-        base = Path(self.file).parent.resolve()
+        base = self.folder.resolve()
         target = (base / name).resolve()
         if Path(name).is_absolute() or not target.is_relative_to(base):
             self.error(path, f"expected a file inside the spec's folder, found '{name}'",
@@ -155,7 +160,9 @@ class _Resolver:
             self._tables[name] = None
             return None
         try:
-            text = target.read_text(encoding="utf-8-sig")
+            data = target.read_bytes()
+            self.files[name] = hashlib.sha256(data).hexdigest()
+            text = data.decode("utf-8-sig")
         except (OSError, UnicodeDecodeError) as e:
             self.error(path, f"expected a readable spectra CSV file, found '{name}' "
                        f"({getattr(e, 'strerror', None) or 'not UTF-8 text'})",
@@ -258,9 +265,10 @@ def _reference_from_spec(other: dict) -> ReferenceGamut | None:
                           f"spec {other['id']}")
 
 
-def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems) -> Spec | None:
+def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems,
+                 folder: Path | None = None) -> Spec | None:
     observer = v.get("observer", "cie1931-2")
-    r = _Resolver(file, node, problems, observer)
+    r = _Resolver(file, node, problems, observer, folder)
 
     white = None
     if "white" in v:
@@ -324,7 +332,7 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems)
     declared_colours = [k for k in v.get("colours", {}) if k not in RESERVED_COLOUR_NAMES]
 
     units = []
-    names = [p.name for p in primaries]
+    names = [n for n in pv if n not in RESERVED_PRIMARY_NAMES]  # declared, even if one failed a check
     seen_serials: dict[str, int] = {}
     for i, u in enumerate(v.get("units", [])):
         serial = u["serial"]
@@ -373,7 +381,7 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems)
         extends=v.get("extends", ""), owner=v.get("owner", ""), notes=v.get("notes", ""),
         white=white, primaries=primaries, gamut=gamut, units=units, references=references, colours=colours,
         spectra=[r.spectra[k] for k in sorted(r.spectra, key=_spectrum_order)],
-        inherited=dict(node.inherited), warnings=warnings)
+        inherited=dict(node.inherited), warnings=warnings, input_files=dict(sorted(r.files.items())))
 
 
 def _check_gamut_shape(r: _Resolver, names: list[str], primaries: list[Primary], white: White | None) -> None:
