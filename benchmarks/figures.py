@@ -20,12 +20,12 @@ def main(repeats: int = 5) -> int:
     from generator.render import site
 
     evaluated, _ = evaluate(ROOT / "specs")
-    site._figures(evaluated[0])  # warm-up: imports, fonts, cached static layers
+    site.spec_figures(evaluated[0])  # warm-up: imports, fonts, cached static layers
     per_spec = []
     for _ in range(repeats):
         for e in evaluated:
             t0 = time.perf_counter()
-            figs = site._figures(e)
+            figs = site.spec_figures(e)
             per_spec.append((time.perf_counter() - t0) * 1000 / max(1, len(figs)))
     print(f"diagram (draw + SVG), median over {len(per_spec)} spec renders: "
           f"{statistics.median(per_spec):.1f} ms (min {min(per_spec):.1f}, max {max(per_spec):.1f})")

@@ -61,13 +61,15 @@ def check(specs_path: Path) -> Summary:
     return Summary(evaluated, warnings, results_of(evaluated), seconds=time.perf_counter() - t0)
 
 
-def build(specs_path: Path, out: Path) -> Summary:
+def build(specs_path: Path, out: Path, site_url: str | None = None, reload: bool = False) -> Summary:
+    """``site_url`` (the site's public address) adds canonical links; ``reload`` adds the
+    live-preview script that ``colourspec serve`` uses."""
     from .publish import publish
     from .render.site import render_site
 
     t0 = time.perf_counter()
     evaluated, warnings = evaluate(specs_path)
     results = results_of(evaluated)
-    site, n_pages, n_figures = render_site(evaluated, results)
+    site, n_pages, n_figures = render_site(evaluated, results, site_url=site_url, reload=reload)
     publish(site, out)
     return Summary(evaluated, warnings, results, n_pages, n_figures, time.perf_counter() - t0)

@@ -31,12 +31,15 @@ def test_demo_shows_both_verdicts(demo_results):
     assert {"pass", "fail"} <= unit_verdicts
 
 
-def test_spec_page_has_diagrams_first_then_the_compliance_table(demo_site):
+def test_spec_page_sections_follow_the_reading_order(demo_site):
     page = (demo_site / "corvinta-atlas-27-studio" / "index.html").read_text(encoding="utf-8")
     imgs = re.findall(r'<img src="([^"]+)" alt="([^"]+)"', page)
     assert [i[0] for i in imgs] == ["xy.svg", "uv.svg", "white.svg"]
     assert all(alt.strip() for _, alt in imgs)
-    assert page.index("<img") < page.index("Compliance: design targets")
+    order = ["verdict", "diagrams", "compliance", "derived", "units", "notes", "methods", "downloads"]
+    positions = [page.index(f'<section id="{s}"') for s in order]
+    assert positions == sorted(positions)
+    assert page.index("<img") < page.index('<section id="compliance"')
     assert "✗ fail" in page and "✓ pass" in page
 
 

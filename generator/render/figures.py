@@ -21,6 +21,7 @@ from ..colour.cct import uv_from_cct_duv  # noqa: E402
 from ..colour.convert import uv1960_to_uv_prime, uv1960_to_xy, uv_prime_to_xy, xy_to_uv_prime  # noqa: E402
 from ..colour.planck import planck_uv  # noqa: E402
 from ..colour.spectral import spectral_locus_xy  # noqa: E402
+from .swatch import xy_to_preview_rgb  # noqa: E402
 
 matplotlib.rcParams.update({
     "svg.hashsalt": "colourspec",
@@ -68,13 +69,8 @@ def _closed(p):
 # Diagram frames, fixed so that figures need no "tight" layout pass (it draws everything twice).
 _FRAME = {"xy": dict(xlim=(-0.04, 0.8), ylim=(-0.02, 0.9), xlabel="x", ylabel="y"),
           "uv": dict(xlim=(-0.04, 0.66), ylim=(-0.02, 0.64), xlabel="u'", ylabel="v'")}
-FULL_SIZE, FULL_AXES = (5.6, 5.9), (0.11, 0.085, 0.86, 0.86)
+FULL_SIZE, FULL_AXES = (5.6, 5.9), (0.11, 0.1, 0.86, 0.85)
 FILL_NOTE = "Fill: approximate colours (sRGB preview), not measured values."
-
-
-def _srgb_encode(rgb):
-    # IEC 61966-2-1:1999 transfer function (encoding), on linear RGB in [0, 1]
-    return np.where(rgb <= 0.0031308, 12.92 * rgb, 1.055 * np.power(np.clip(rgb, 0.0031308, None), 1 / 2.4) - 0.055)
 
 
 @cache
@@ -90,14 +86,7 @@ def locus_fill(diagram: str, n: int = 128) -> np.ndarray:
     gx, gy = np.meshgrid(xs, ys)
     pts = np.stack([gx, gy], axis=-1)
     xy = pts if diagram == "xy" else uv_prime_to_xy(pts)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        X = xy[..., 0] / xy[..., 1]
-        Z = (1 - xy[..., 0] - xy[..., 1]) / xy[..., 1]
-    XYZ = np.stack([X, np.ones_like(X), Z], axis=-1)
-    m = np.array([[3.2406, -1.5372, -0.4986], [-0.9689, 1.8758, 0.0415], [0.0557, -0.2040, 1.0570]])
-    rgb = np.clip(np.nan_to_num(XYZ @ m.T, nan=0.0, posinf=0.0, neginf=0.0), 0, None)
-    rgb = rgb / np.maximum(rgb.max(axis=-1, keepdims=True), 1e-12)
-    rgb = 0.5 * _srgb_encode(rgb) + 0.5
+    rgb = 0.5 * xy_to_preview_rgb(xy) + 0.5
     return np.round(rgb * 255).astype(np.uint8)
 
 
@@ -178,7 +167,8 @@ class _Drawn:
                 a.remove()
         if ax.get_legend() is not None:
             ax.get_legend().remove()
-        ax.set_title("")
+        for a in list(self.fig.legends) + list(self.fig.texts):
+            a.remove()
 
 
 _ID = re.compile(r'(id="|url\(#|xlink:href="#)([A-Za-z_][\w.-]*)')
@@ -219,7 +209,7 @@ def chromaticity_diagram(layer: Layer, diagram: str, fill: bool = True):
         ax.plot(*_to(diagram, layer.white_xy), marker="*", color=PALETTE["target"], ms=9, zorder=7,
                 label="white target", ls="none")
     _units(ax, layer.units, lambda xy: _to(diagram, xy))
-    ax.set_title(layer.title, fontsize=10)
+    fig.text(FULL_AXES[0] + FULL_AXES[2] / 2, 0.975, layer.title, fontsize=10, ha="center", va="top")
     ax.legend(handles=_static_handles() + ax.get_legend_handles_labels()[0],
               loc="upper right" if diagram == "xy" else "lower right", fontsize=7, frameon=True,
               framealpha=0.92)
@@ -249,12 +239,38 @@ DUV_LINES = (-0.02, -0.01, -0.005, 0.005, 0.01, 0.02)
 _LABEL_BOX = {"boxstyle": "round,pad=0.15", "fc": "white", "ec": "none", "alpha": 0.85}
 
 
+@cache
+def _white_lines():
+    """Planckian locus, lines of constant Duv and isotherms in u'v': the same for every
+    close-up, and costly (each point integrates Planck's law over the observer)."""
+    T = np.geomspace(1000, 100000, 400)
+    duv = {d: uv1960_to_uv_prime(uv_from_cct_duv(T, d)) for d in DUV_LINES}
+    iso = {t: uv1960_to_uv_prime(uv_from_cct_duv(np.full(41, float(t)), np.linspace(-0.03, 0.03, 41)))
+           for t in ISOTHERMS_K}
+    return uv1960_to_uv_prime(planck_uv(T)), duv, iso
+
+
+_WHITE: list = []
+
+
+def _white_figure():
+    """One figure reused for every close-up (its axis and tick objects are kept; each
+    spec's artists are removed after saving)."""
+    if not _WHITE:
+        fig = plt.figure(figsize=(5.6, 4.9))
+        ax = fig.add_axes((0.13, 0.25, 0.84, 0.69))
+        ax.set_aspect("equal")
+        ax.grid(color=PALETTE["grid"], lw=0.4)
+        _WHITE.append((fig, ax))
+    return _WHITE[0]
+
+
 def white_closeup(layer: Layer, span: float = 0.02):
     """The white target in CIE 1976 u'v' with the Planckian locus, isotherms and lines of
     constant Duv (CIE 1960 uv distances, drawn in u'v'). Lines are labelled inside the
     frame; the legend sits below it so that it covers nothing."""
-    fig = plt.figure(figsize=(5.6, 4.9))
-    ax = fig.add_axes((0.13, 0.25, 0.84, 0.69))
+    fig, ax = _white_figure()
+    fig._colourspec_drawn = _Drawn(fig, ax, "")
     w = xy_to_uv_prime(np.array(layer.white_xy))
     pts = [w] + [xy_to_uv_prime(np.array(xy)) for _, xy, _ in layer.units]
     for _, poly in layer.tolerances:
@@ -266,20 +282,17 @@ def white_closeup(layer: Layer, span: float = 0.02):
     def inside(p, m=0.04):
         return (x0 + m * 2 * half < p[0] < x1 - m * 2 * half) and (y0 + m * 1.6 * half < p[1] < y1 - m * 1.6 * half)
 
-    T = np.geomspace(1000, 100000, 400)
-    for duv in DUV_LINES:
-        line = uv1960_to_uv_prime(uv_from_cct_duv(T, duv))
+    pl, duv_lines, isotherms = _white_lines()
+    for duv, line in duv_lines.items():
         ax.plot(*line.T, color=PALETTE["isotherm"], lw=0.7, ls=(0, (2, 2)), zorder=1)
         vis = [p for p in line if inside(p)]
         if vis:  # label where the line leaves the frame at the bottom
             p = min(vis, key=lambda q: q[1])
             ax.text(*p, f"Duv {duv:+.3f}", fontsize=6.5, color="#333333", ha="center", va="bottom",
                     zorder=4, bbox=_LABEL_BOX)
-    pl = uv1960_to_uv_prime(planck_uv(T))
     ax.plot(*pl.T, color=PALETTE["planck"], lw=1.2, label="Planckian locus (Duv 0)", zorder=2)
     first = True
-    for t in ISOTHERMS_K:
-        iso = uv1960_to_uv_prime(uv_from_cct_duv(np.full(41, float(t)), np.linspace(-0.03, 0.03, 41)))
+    for t, iso in isotherms.items():
         ax.plot(*iso.T, color=PALETTE["isotherm"], lw=0.7, zorder=1,
                 label="isotherms (CCT) and lines of constant Duv" if first else "_nolegend_")
         first = False
@@ -294,9 +307,7 @@ def white_closeup(layer: Layer, span: float = 0.02):
     ax.plot(*w, marker="*", color=PALETTE["target"], ms=11, ls="none", zorder=5, label="white target")
     _units(ax, layer.units, lambda xy: xy_to_uv_prime(np.array(xy)))
     ax.set(xlim=(x0, x1), ylim=(y0, y1), xlabel="u'", ylabel="v'")
-    ax.set_aspect("equal")
-    ax.grid(color=PALETTE["grid"], lw=0.4)
-    ax.set_title(layer.title, fontsize=10)
+    fig.text(0.55, 0.985, layer.title, fontsize=10, ha="center", va="top")
     fig.legend(*ax.get_legend_handles_labels(), loc="lower center", ncols=2, fontsize=7, frameon=False)
     return fig, ax
 
@@ -315,7 +326,8 @@ def save_svg(fig, title: str = "", desc: str = "") -> str:
     if drawn is not None:
         drawn.clear()
         fig._colourspec_drawn = None
-        svg = _compose(drawn.base_svg, svg)
+        if drawn.base_svg:
+            svg = _compose(drawn.base_svg, svg)
     else:
         plt.close(fig)
     if title or desc:

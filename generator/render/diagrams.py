@@ -1,0 +1,165 @@
+"""Each spec's diagrams and the numbers drawn on them.
+
+``spec_figures(e)`` gives, per diagram: the SVG (with <title>/<desc>), alt text, and the
+plotted points as rows, so that the page's table beside the figure, its CSV and its JSON
+download all come from exactly what was drawn.
+"""
+from __future__ import annotations
+
+import csv
+import io
+import json
+import re
+
+import numpy as np
+
+from ..colour.convert import xy_to_uv_prime
+from . import figures as F
+from ..assess.rules import SYMBOL
+from .pages import fmt
+
+
+def tolerance_shapes(tol, centre_xy, label):
+    shapes = []
+    if tol.delta_uv is not None:
+        shapes.append((f"{label}: Δu'v' ≤ {tol.delta_uv:g}", F.uv_circle_xy(centre_xy, tol.delta_uv)))
+    if tol.box is not None:
+        shapes.append((f"{label}: xy box", F.box_xy(centre_xy, *tol.box)))
+    if tol.ellipse is not None:
+        shapes.append((f"{label}: xy ellipse", F.ellipse_xy(centre_xy, *tol.ellipse)))
+    if tol.region is not None:
+        shapes.append((f"{label}: region", np.array(tol.region)))
+    if tol.cct is not None or tol.duv is not None:
+        shapes.append((f"{label}: CCT × Duv", F.cct_duv_quad_xy(tol.cct or (None, None), tol.duv or (None, None))))
+    return shapes
+
+
+def layer_for(e, which: str) -> F.Layer:
+    spec = e.spec
+    unit_verdicts = {u["serial"]: u["verdict"] for u in e.assessment.units}
+    shown = []
+    for g in spec.gamut:
+        if g.reference not in shown:
+            shown.append(g.reference)
+    refs = [(spec.references[key].title, e.derived.ref_hulls[key][0]) for key in shown]
+    if which == "white":
+        tol = tolerance_shapes(spec.white.tolerance, spec.white.xy, "white")
+        units = [(f"{u.serial} white", u.white.xy, unit_verdicts[u.serial]) for u in spec.units if u.white is not None]
+        return F.Layer("White point, CIE 1976 u'v'", None, [], spec.white.xy, [], tol, units, spec.observer)
+    tol = []
+    for p in spec.primaries:
+        tol += tolerance_shapes(p.tolerance, p.xy, p.name)
+    if spec.white is not None:
+        tol += [t for t in tolerance_shapes(spec.white.tolerance, spec.white.xy, "white") if "CCT" not in t[0]]
+    units = []
+    for u in spec.units:
+        for name, m in u.primaries.items():
+            units.append((f"{u.serial} {name}", m.xy, unit_verdicts[u.serial]))
+        if u.white is not None:
+            units.append((f"{u.serial} white", u.white.xy, unit_verdicts[u.serial]))
+    gamut = e.derived.gamut.hull_xy if e.derived.gamut is not None else None
+    title = "CIE 1931 xy chromaticity diagram" if which == "xy" else "CIE 1976 u'v' chromaticity diagram"
+    return F.Layer(title, gamut, [(p.name, p.xy) for p in spec.primaries],
+                   spec.white.xy if spec.white else None, refs, tol, units, spec.observer)
+
+
+AXES = {"xy": ("x", "y"), "uv": ("u'", "v'"), "white": ("u'", "v'")}
+_KEYS = {"xy": ("x", "y"), "uv": ("u_prime", "v_prime"), "white": ("u_prime", "v_prime")}
+
+
+def plotted_points(layer: F.Layer, which: str) -> list[dict]:
+    """Every marked point of a diagram in its own coordinates: targets, units, reference
+    corners and each tolerance outline's centre of its drawn vertices (outlines in JSON)."""
+    def co(xy):
+        xy = np.asarray(xy, dtype=float)
+        return xy if which == "xy" else xy_to_uv_prime(xy)
+
+    rows = []
+    for name, xy in layer.primaries:
+        rows.append({"kind": "target", "name": name, "at": co(xy), "verdict": ""})
+    if layer.white_xy is not None:
+        rows.append({"kind": "target", "name": "white", "at": co(layer.white_xy), "verdict": ""})
+    for label, xy, verdict in layer.units:
+        rows.append({"kind": "unit", "name": label, "at": co(xy), "verdict": verdict})
+    for title, hull in layer.references:
+        for k, xy in enumerate(np.asarray(hull)):
+            rows.append({"kind": "reference", "name": f"{title} corner {k + 1}", "at": co(xy), "verdict": ""})
+    return rows
+
+
+def _data_json(which, layer, rows) -> str:
+    a, b = _KEYS[which]
+    doc = {
+        "figure": which, "title": layer.title, "coordinates": [a, b], "observer": layer.observer,
+        "points": [{"kind": r["kind"], "name": r["name"], a: float(r["at"][0]), b: float(r["at"][1]),
+                    **({"verdict": r["verdict"]} if r["verdict"] else {})} for r in rows],
+        "tolerances": [{"label": label, "outline": [[float(v) for v in p] for p in
+                        (np.asarray(poly) if which == "xy" else xy_to_uv_prime(np.asarray(poly)))]}
+                       for label, poly in layer.tolerances],
+    }
+    return json.dumps(doc, indent=1, ensure_ascii=False) + "\n"
+
+
+def _data_csv(which, rows) -> str:
+    a, b = _KEYS[which]
+    buf = io.StringIO()
+    w = csv.writer(buf, lineterminator="\n")
+    w.writerow(["kind", "name", a, b, "verdict"])
+    for r in rows:
+        w.writerow([r["kind"], r["name"], f"{r['at'][0]:.6f}", f"{r['at'][1]:.6f}", r["verdict"]])
+    return buf.getvalue()
+
+
+def _alt(e, which) -> str:
+    spec = e.spec
+    if which == "white":
+        n = sum(u.white is not None for u in spec.units)
+        return (f"White target at x {spec.white.xy[0]:.4f}, y {spec.white.xy[1]:.4f} in CIE 1976 u'v' with the "
+                f"Planckian locus, isotherms, lines of constant Duv and the tolerance drawn to scale; "
+                f"{n} measured unit whites marked by verdict. The numbers are in the table beside it.")
+    names = ", ".join(p.name for p in spec.primaries) or "none"
+    refs = ", ".join(dict.fromkeys(spec.references[g.reference].title for g in spec.gamut)) or "none"
+    d = "CIE 1931 xy" if which == "xy" else "CIE 1976 u'v'"
+    return (f"{d} diagram with the spectral locus (filled with approximate colours) and the Planckian locus; "
+            f"spec primaries {names}; reference gamuts: {refs}; tolerance regions to scale; "
+            f"{len(spec.units)} measured units marked by verdict. The numbers are in the table beside it.")
+
+
+SHOWN_WIDTH = 504  # CSS pixels on the page
+
+
+def _shown_height(svg: str) -> int:
+    w, h = (float(v) for v in re.search(r'viewBox="0 0 ([\d.]+) ([\d.]+)"', svg).groups())
+    return round(SHOWN_WIDTH * h / w)
+
+
+TITLES = {"xy": "CIE 1931 xy diagram", "uv": "CIE 1976 u'v' diagram", "white": "White point close-up"}
+
+
+def spec_figures(e) -> list[dict]:
+    spec = e.spec
+    kinds = []
+    if spec.primaries or spec.white:
+        kinds += ["xy", "uv"]
+    if spec.white is not None:
+        kinds.append("white")
+    out = []
+    for which in kinds:
+        layer = layer_for(e, which)
+        fig, _ = F.white_closeup(layer) if which == "white" else F.chromaticity_diagram(layer, which)
+        alt = _alt(e, which)
+        rows = plotted_points(layer, which)
+        a, b = AXES[which]
+        svg = F.save_svg(fig, f"{TITLES[which]}: {spec.title}", alt)
+        out.append({
+            "key": which, "file": f"{which}.svg", "csv": f"{which}.csv", "json": f"{which}.json",
+            "title": TITLES[which], "alt": alt,
+            "svg": svg, "width": SHOWN_WIDTH, "height": _shown_height(svg),
+            "data_csv": _data_csv(which, rows), "data_json": _data_json(which, layer, rows),
+            "axes": [a, b],
+            "rows": [{"kind": r["kind"], "name": r["name"], "a": fmt(float(r["at"][0])),
+                      "b": fmt(float(r["at"][1])), "verdict": r["verdict"], "symbol": SYMBOL.get(r["verdict"], "")}
+                     for r in rows],
+            "tolerances": [label for label, _ in layer.tolerances],
+        })
+    return out
