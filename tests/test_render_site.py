@@ -127,3 +127,10 @@ def test_served_build_includes_the_reload_script_and_a_plain_build_does_not(tmp_
 def test_plain_build_has_no_reload_script(demo_site):
     for page in demo_site.rglob("*.html"):
         assert "reload.js" not in page.read_text(encoding="utf-8")
+
+
+def test_failing_rows_in_the_verdict_box_name_their_subject(demo_site):
+    page = (demo_site / "corvinta-pocket-6-phone" / "index.html").read_text(encoding="utf-8")
+    box = page[page.index('<section id="verdict"'): page.index("</section>")]
+    assert "blue: Δu&#39;v&#39; from target — unit PK6-20003: 0.0121 against ≤ 0.0060" in box
+    assert "white: white luminance" not in box and "white luminance — unit PK6-20003" in box

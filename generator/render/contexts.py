@@ -31,7 +31,7 @@ class SpecContext(Base):
     verdict: str        # pass | fail | indeterminate
     verdict_symbol: str
     counts: dict        # rows, fail, indeterminate, units, units_fail
-    failing: list[dict]  # the first failing rows (pages.row_view), with shortfall text
+    failing: list[dict]  # the first failing rows (pages.row_view) with 'what' (subject: label) and shortfall
     failing_more: int
     figures: list[FigureView]
     design_rows: list[dict]

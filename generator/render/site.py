@@ -39,11 +39,19 @@ def _sections(ctx) -> list[tuple[str, str]]:
     return out
 
 
+def _what(row) -> str:
+    """A failing row named with its subject, unless the label already says it ('blue: Δu'v' from target')."""
+    subject, label = row["subject"] or "", row["label"]
+    if not subject or subject == "gamut" or label.lower().startswith(subject.lower()):
+        return label
+    return f"{subject}: {label}"
+
+
 def spec_context(e, figs, site_url: str | None = None) -> SpecContext:
     spec, d, a = e.spec, e.derived, e.assessment
     rows = [row_view(r) for r in a.rows]
     design = [r for r in rows if r["sample"] is None]
-    failing = [r for r in rows if r["verdict"] != "pass"]
+    failing = [dict(r, what=_what(r)) for r in rows if r["verdict"] != "pass"]
     white = None
     if d.white:
         w = d.white
