@@ -110,7 +110,7 @@ def test_pages_link_only_relative_paths_that_exist(demo_site):
         html = page.read_text(encoding="utf-8")
         for ref in re.findall(r'(?:href|src)="([^"#]+)"', html):
             assert not ref.startswith(("/", "file:")), ref
-            if ref.startswith(("http:", "https:", "mailto:")):
+            if ref.startswith(("http:", "https:", "mailto:", "data:")):
                 continue
             assert (page.parent / ref).resolve().exists(), f"{page.name}: {ref}"
 
