@@ -9,7 +9,6 @@ verdicts as readily as passing ones, so it exits 0 once the site is written, unl
 from __future__ import annotations
 
 import argparse
-import json
 import sys
 import traceback
 from pathlib import Path

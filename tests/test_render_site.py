@@ -47,7 +47,8 @@ def test_index_names_each_gamut_requirements_key_figure(demo_site):
 
 
 def test_canonical_address_joins_site_url_and_page_path():
-    assert canonical("https://specs.example.org/colour/", "a/index.html") == "https://specs.example.org/colour/a/index.html"
+    url = "https://specs.example.org/colour/"
+    assert canonical(url, "a/index.html") == "https://specs.example.org/colour/a/index.html"
     assert canonical("https://specs.example.org/colour/", "index.html") == "https://specs.example.org/colour/"
     assert canonical(None, "a/index.html") == ""
 
@@ -63,7 +64,8 @@ def test_site_url_adds_canonical_links_and_keeps_page_links_relative(tmp_path):
     page = (tmp_path / "site" / "corvinta-atlas-27-studio" / "index.html").read_text(encoding="utf-8")
     assert '<link rel="canonical" href="https://specs.example.org/colour/corvinta-atlas-27-studio/index.html">' in page
     assert 'href="../static/site.css"' in page and 'href="../index.html"' in page
-    assert "canonical" not in (tmp_path / "plain" / "corvinta-atlas-27-studio" / "index.html").read_text(encoding="utf-8")
+    plain = (tmp_path / "plain" / "corvinta-atlas-27-studio" / "index.html").read_text(encoding="utf-8")
+    assert "canonical" not in plain
 
 
 def test_build_refuses_a_site_url_that_is_not_an_address(tmp_path, capsys):
@@ -78,7 +80,8 @@ def test_spec_page_verdict_box_says_what_fails_and_by_how_much(demo_site):
     page = (demo_site / "corvinta-atlas-27-studio" / "index.html").read_text(encoding="utf-8")
     box = page[page.index('<section id="verdict"'): page.index("</section>")]
     assert "✗ FAIL" in box and "What fails, and by how much:" in box
-    assert "coverage of DCI-P3 (CIE 1976 u&#39;v&#39;) — unit AT27-0002: 93.2% against ≥ 95.0%, <strong>outside by 1.8 points</strong>" in box
+    assert ("coverage of DCI-P3 (CIE 1976 u&#39;v&#39;) — unit AT27-0002: 93.2% against ≥ 95.0%, "
+            "<strong>outside by 1.8 points</strong>") in box
 
 
 def test_passing_spec_page_says_that_everything_passes(demo_site):
@@ -107,7 +110,8 @@ def test_method_section_names_observer_methods_and_editions(demo_site):
 
 def test_swatches_are_approximate_previews_with_fixed_colours(demo_site):
     page = (demo_site / "corvinta-atlas-27-studio" / "index.html").read_text(encoding="utf-8")
-    swatches = re.findall(r'<span class="swatch" style="background-color: (#[0-9a-f]{6})" title="approximate sRGB preview">', page)
+    swatches = re.findall(r'<span class="swatch" style="background-color: (#[0-9a-f]{6})" '
+                          r'title="approximate sRGB preview">', page)
     assert len(swatches) == 4  # white and three primaries
     assert "approximate sRGB renderings" in page
 
@@ -121,7 +125,8 @@ def test_served_build_includes_the_reload_script_and_a_plain_build_does_not(tmp_
         os.chdir(cwd)
     assert '<script src="../static/reload.js"></script>' in (
         tmp_path / "served" / "corvinta-atlas-27-studio" / "index.html").read_text(encoding="utf-8")
-    assert '<script src="static/reload.js"></script>' in (tmp_path / "served" / "index.html").read_text(encoding="utf-8")
+    index = (tmp_path / "served" / "index.html").read_text(encoding="utf-8")
+    assert '<script src="static/reload.js"></script>' in index
 
 
 def test_plain_build_has_no_reload_script(demo_site):

@@ -38,7 +38,8 @@ def test_broken_spec_is_reported_in_the_status_and_the_last_good_site_stays(tmp_
     out = tmp_path / "site"
     state = State()
     rebuild(specs, out, state)
-    assert json.loads(state.status_json()) == {"build": 1, "errors": [], "seconds": pytest.approx(state.seconds, abs=1e-3)}
+    status = json.loads(state.status_json())
+    assert status == {"build": 1, "errors": [], "seconds": pytest.approx(state.seconds, abs=1e-3)}
     good = (out / "index.html").read_bytes()
     p = specs / "corvinta-atlas-27-studio.yaml"
     p.write_text(p.read_text(encoding="utf-8").replace("revision: C", "revision: [C"), encoding="utf-8")

@@ -13,9 +13,9 @@ import re
 
 import numpy as np
 
+from ..assess.rules import SYMBOL
 from ..colour.convert import xy_to_uv_prime
 from . import figures as F
-from ..assess.rules import SYMBOL
 from .pages import fmt
 
 

@@ -14,8 +14,8 @@ import matplotlib
 
 matplotlib.use("Agg")
 import matplotlib.pyplot as plt  # noqa: E402
-from matplotlib.patches import Polygon  # noqa: E402
 import numpy as np  # noqa: E402
+from matplotlib.patches import Polygon  # noqa: E402
 
 from ..colour.cct import uv_from_cct_duv  # noqa: E402
 from ..colour.convert import uv1960_to_uv_prime, uv1960_to_xy, uv_prime_to_xy, xy_to_uv_prime  # noqa: E402

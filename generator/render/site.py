@@ -10,8 +10,7 @@ import json
 from ..publish import SiteFiles
 from .contexts import IndexContext, SpecContext
 from .diagrams import spec_figures
-from .pages import (CAUTION, CAUTION_CATEGORIES, environment, fmt, methods, render_markdown, row_view,
-                    templates_dir)
+from .pages import CAUTION, CAUTION_CATEGORIES, environment, fmt, methods, render_markdown, row_view, templates_dir
 from .results import dumps
 from .swatch import swatch_hex
 
