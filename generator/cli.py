@@ -41,7 +41,7 @@ def _parser() -> argparse.ArgumentParser:
     sv.add_argument("specs", nargs="?", default="specs", help="spec file or folder (default: specs/)")
     sv.add_argument("-o", "--output", default="site_output", help="site folder (default: site_output/)")
     sv.add_argument("--port", type=int, default=8000, help="port on 127.0.0.1 (default: 8000; 0 picks a free one)")
-    sv.add_argument("--interval", type=float, default=0.3, help="seconds between checks for changes (default: 0.3)")
+    sv.add_argument("--interval", type=float, default=0.2, help="seconds between checks for changes (default: 0.2)")
     c = sub.add_parser("check", help="validate and assess without writing a site")
     c.add_argument("specs", nargs="?", default="specs", help="spec file or folder (default: specs/)")
     c.add_argument("--json", metavar="FILE", help="write results.json here ('-' for standard output)")

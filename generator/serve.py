@@ -137,7 +137,7 @@ def watch(specs: Path, out: Path, state: State, interval: float, stop: threading
             rebuild(specs, out, state)
 
 
-def serve(specs: Path, out: Path, port: int = 8000, interval: float = 0.3) -> int:
+def serve(specs: Path, out: Path, port: int = 8000, interval: float = 0.2) -> int:
     state = State()
     rebuild(specs, out, state)
     server = start_server(out, state, port)

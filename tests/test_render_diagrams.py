@@ -138,3 +138,16 @@ def test_spec_page_shows_each_figures_numbers_in_a_table_beside_it(demo_site):
         assert f'<img src="{which}.svg"' in block and "<table" in block
         assert f'href="{which}.csv"' in block and f'href="{which}.json"' in block
     assert "unit: AT27-0002 white" in page
+
+
+def test_an_unchanged_diagram_is_not_redrawn_and_a_changed_one_is(monkeypatch):
+    from generator.render import diagrams as D
+
+    calls = []
+    real = F.chromaticity_diagram
+    monkeypatch.setattr(F, "chromaticity_diagram", lambda *a, **k: calls.append(a) or real(*a, **k))
+    a = D._draw("xy", _layer([("U1 red", (0.63, 0.33), "pass")]), "memo test", "d")
+    b = D._draw("xy", _layer([("U1 red", (0.63, 0.33), "pass")]), "memo test", "d")
+    c = D._draw("xy", _layer([("U1 red", (0.63, 0.33), "fail")]), "memo test", "d")
+    assert a == b and a != c
+    assert len(calls) == 2

@@ -7,9 +7,12 @@ download all come from exactly what was drawn.
 from __future__ import annotations
 
 import csv
+import hashlib
 import io
 import json
+import pickle
 import re
+from collections import OrderedDict
 
 import numpy as np
 
@@ -136,6 +139,25 @@ def _shown_height(svg: str) -> int:
 TITLES = {"xy": "CIE 1931 xy diagram", "uv": "CIE 1976 u'v' diagram", "white": "White point close-up"}
 
 
+_SVG_MEMO: OrderedDict[bytes, str] = OrderedDict()
+_MEMO_SIZE = 128
+
+
+def _draw(which: str, layer: F.Layer, title: str, desc: str) -> str:
+    """The SVG of one diagram, remembered by the digest of everything it is drawn from, so
+    that a long-running process (``colourspec serve``) redraws only what changed."""
+    key = hashlib.sha256(pickle.dumps((which, layer, title, desc), protocol=5)).digest()
+    if key in _SVG_MEMO:
+        _SVG_MEMO.move_to_end(key)
+        return _SVG_MEMO[key]
+    fig, _ = F.white_closeup(layer) if which == "white" else F.chromaticity_diagram(layer, which)
+    svg = F.save_svg(fig, title, desc)
+    _SVG_MEMO[key] = svg
+    if len(_SVG_MEMO) > _MEMO_SIZE:
+        _SVG_MEMO.popitem(last=False)
+    return svg
+
+
 def spec_figures(e) -> list[dict]:
     spec = e.spec
     kinds = []
@@ -146,11 +168,10 @@ def spec_figures(e) -> list[dict]:
     out = []
     for which in kinds:
         layer = layer_for(e, which)
-        fig, _ = F.white_closeup(layer) if which == "white" else F.chromaticity_diagram(layer, which)
         alt = _alt(e, which)
         rows = plotted_points(layer, which)
         a, b = AXES[which]
-        svg = F.save_svg(fig, f"{TITLES[which]}: {spec.title}", alt)
+        svg = _draw(which, layer, f"{TITLES[which]}: {spec.title}", alt)
         out.append({
             "key": which, "file": f"{which}.svg", "csv": f"{which}.csv", "json": f"{which}.json",
             "title": TITLES[which], "alt": alt,

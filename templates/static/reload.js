@@ -35,7 +35,7 @@
       seen = s.build;
       show(s.errors);
     }).catch(function () { /* server stopped: keep the page as it is */ }).then(function () {
-      setTimeout(poll, 400);
+      setTimeout(poll, 250);
     });
   }
   poll();
