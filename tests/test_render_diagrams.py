@@ -151,3 +151,11 @@ def test_an_unchanged_diagram_is_not_redrawn_and_a_changed_one_is(monkeypatch):
     c = D._draw("xy", _layer([("U1 red", (0.63, 0.33), "fail")]), "memo test", "d")
     assert a == b and a != c
     assert len(calls) == 2
+
+
+def test_clip_path_ids_do_not_depend_on_where_objects_live_in_memory():
+    fig, _ = F.chromaticity_diagram(_layer(), "xy")
+    svg = F.save_svg(fig)
+    clip_ids = re.findall(r'<clipPath id="([^"]+)"', svg)
+    assert clip_ids == [f"clip{n}" for n in range(1, len(clip_ids) + 1)]
+    assert all(f"url(#{i})" in svg for i in clip_ids)

@@ -316,6 +316,17 @@ def _xml(text: str) -> str:
     return text.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;").replace('"', "&quot;")
 
 
+_CLIP_ID = re.compile(r'<clipPath id="((?:o-)?p[0-9a-f]{10})"')
+
+
+def _stable_ids(svg: str) -> str:
+    """Clip-path ids numbered in order of definition. matplotlib derives the id of a clip
+    path set on an artist from the object's memory address, which differs between runs."""
+    for n, old in enumerate(dict.fromkeys(_CLIP_ID.findall(svg)), start=1):
+        svg = svg.replace(f'id="{old}"', f'id="clip{n}"').replace(f"url(#{old})", f"url(#clip{n})")
+    return svg
+
+
 def save_svg(fig, title: str = "", desc: str = "") -> str:
     """The figure as SVG text, with a <title> and <desc> for screen readers when given. A
     figure drawn on a cached frame has its spec's layers removed afterwards."""
@@ -330,6 +341,7 @@ def save_svg(fig, title: str = "", desc: str = "") -> str:
             svg = _compose(drawn.base_svg, svg)
     else:
         plt.close(fig)
+    svg = _stable_ids(svg)
     if title or desc:
         m = re.search(r"<svg\b[^>]*>", svg)
         head = svg[: m.end()]
