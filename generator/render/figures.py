@@ -261,6 +261,7 @@ def _white_figure():
         ax = fig.add_axes((0.13, 0.25, 0.84, 0.69))
         ax.set_aspect("equal")
         ax.grid(color=PALETTE["grid"], lw=0.4)
+        ax.locator_params(nbins=6)
         _WHITE.append((fig, ax))
     return _WHITE[0]
 
@@ -279,26 +280,40 @@ def white_closeup(layer: Layer, span: float = 0.02):
     half = max(span, float(np.max(np.abs(pts - w))) * 1.25)
     x0, x1, y0, y1 = w[0] - half, w[0] + half, w[1] - half * 0.8, w[1] + half * 0.8
 
-    def inside(p, m=0.04):
-        return (x0 + m * 2 * half < p[0] < x1 - m * 2 * half) and (y0 + m * 1.6 * half < p[1] < y1 - m * 1.6 * half)
+    def within(line, m):
+        mx, my = m * 2 * half, m * 1.6 * half
+        return ((line[:, 0] > x0 + mx) & (line[:, 0] < x1 - mx) & (line[:, 1] > y0 + my) & (line[:, 1] < y1 - my))
+
+    def visible_part(line):
+        """The line's points in the frame and one beyond on each side (None if it misses it)."""
+        keep = within(line, -0.02)
+        if not keep.any():
+            return None
+        keep = keep | np.roll(keep, 1) | np.roll(keep, -1)
+        return line[keep]
 
     pl, duv_lines, isotherms = _white_lines()
     for duv, line in duv_lines.items():
-        ax.plot(*line.T, color=PALETTE["isotherm"], lw=0.7, ls=(0, (2, 2)), zorder=1)
-        vis = [p for p in line if inside(p)]
-        if vis:  # label where the line leaves the frame at the bottom
-            p = min(vis, key=lambda q: q[1])
+        part = visible_part(line)
+        if part is None:
+            continue
+        ax.plot(*part.T, color=PALETTE["isotherm"], lw=0.7, ls=(0, (2, 2)), zorder=1)
+        vis = line[within(line, 0.04)]
+        if len(vis):  # label where the line leaves the frame at the bottom
+            p = vis[np.argmin(vis[:, 1])]
             ax.text(*p, f"Duv {duv:+.3f}", fontsize=6.5, color="#333333", ha="center", va="bottom",
                     zorder=4, bbox=_LABEL_BOX)
-    ax.plot(*pl.T, color=PALETTE["planck"], lw=1.2, label="Planckian locus (Duv 0)", zorder=2)
-    first = True
+    ax.plot(*visible_part(pl).T if visible_part(pl) is not None else ([], []), color=PALETTE["planck"], lw=1.2,
+            label="Planckian locus (Duv 0)", zorder=2)
+    label = "isotherms (CCT) and lines of constant Duv"
     for t, iso in isotherms.items():
-        ax.plot(*iso.T, color=PALETTE["isotherm"], lw=0.7, zorder=1,
-                label="isotherms (CCT) and lines of constant Duv" if first else "_nolegend_")
-        first = False
-        vis = [p for p in iso if inside(p)]
-        if vis:  # label at the isotherm's highest visible point
-            p = max(vis, key=lambda q: q[1])
+        if visible_part(iso) is None:
+            continue
+        ax.plot(*iso.T, color=PALETTE["isotherm"], lw=0.7, zorder=1, label=label)
+        label = "_nolegend_"
+        vis = iso[within(iso, 0.04)]
+        if len(vis):  # label at the isotherm's highest visible point
+            p = vis[np.argmax(vis[:, 1])]
             ax.text(*p, f"{t} K", fontsize=6.5, color="#333333", ha="center", va="top", zorder=4,
                     bbox=_LABEL_BOX)
     for i, (label, poly) in enumerate(layer.tolerances):
