@@ -94,6 +94,18 @@ def test_spec_page_answers_does_it_pass_and_why_not_within_one_screen(page, demo
     assert page.errors == []
 
 
+def test_every_spec_page_shows_its_whole_verdict_summary_on_the_first_screen(page, demo_site, demo_results):
+    for spec in demo_results["specs"]:
+        page.goto((demo_site / spec["id"] / "index.html").as_uri())
+        word = page.locator("#verdict .verdict").first.inner_text()
+        assert word.endswith(spec["verdict"].upper()), spec["id"]
+        box = page.locator("#verdict").bounding_box()
+        assert box["y"] + box["height"] <= 900, spec["id"]
+        fails = sum(r["verdict"] != "pass" for r in spec["requirements"])
+        assert page.locator("#verdict ul.failing li").count() == min(fails, 12) + (fails > 12), spec["id"]
+    assert page.errors == []
+
+
 @pytest.mark.parametrize("layout", ["file", "http"])
 def test_every_page_loads_without_console_errors(browser, demo_site, web_server, layout):
     ctx, pg = _new_page(browser)
