@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import http.server
 import json
+import signal
 import sys
 import threading
 import time
@@ -137,7 +138,14 @@ def watch(specs: Path, out: Path, state: State, interval: float, stop: threading
             rebuild(specs, out, state)
 
 
+def _stop_on_sigterm(signum, frame):
+    raise KeyboardInterrupt
+
+
 def serve(specs: Path, out: Path, port: int = 8000, interval: float = 0.2) -> int:
+    """Serve until interrupted (Ctrl-C or SIGTERM); the server is shut down on the way out."""
+    if threading.current_thread() is threading.main_thread():
+        signal.signal(signal.SIGTERM, _stop_on_sigterm)
     state = State()
     rebuild(specs, out, state)
     server = start_server(out, state, port)
