@@ -1,6 +1,7 @@
 """colourspec serve: build, serve on 127.0.0.1, rebuild when an input changes, reload pages.
 
-The site is built with a small script (static/reload.js) that polls
+Each rebuild is incremental (generator/cache.py): only the specs an edit touches are
+drawn again. The site is built with a small script (static/reload.js) that polls
 ``__colourspec/status.json``, answered from memory by this server: it carries the build
 number (a page reloads when it changes) and the errors of the last build. A broken spec
 does not stop the server or replace the last good site: its errors are shown over the
@@ -36,31 +37,37 @@ class State:
                                "seconds": round(self.seconds, 3)}).encode("utf-8")
 
 
-def watched_files(specs: Path, templates: Path) -> dict[str, tuple[int, int]]:
+def watched_files(specs: Path, templates: Path, skip: tuple[Path, ...] = ()) -> dict[str, tuple[int, int]]:
     """Modification time and size of every file the site is made from: specs and the
-    measurement files beside them, templates and static assets."""
+    measurement files beside them, templates and static assets. Hidden files and folders
+    (such as the incremental-build cache) are not watched, nor the folders in ``skip``
+    (the site itself, when it lies inside a watched folder)."""
+    skip = tuple(p.resolve() for p in skip)
     out = {}
     roots = [specs.parent if specs.is_file() else specs, templates]
     for root in roots:
         if not root.exists():
             continue
         for p in sorted(root.rglob("*")):
-            if p.is_file() and not p.name.startswith("."):
+            if (p.is_file() and not any(part.startswith(".") for part in p.relative_to(root).parts)
+                    and not any(d == p.resolve() or d in p.resolve().parents for d in skip)):
                 st = p.stat()
                 out[str(p)] = (st.st_mtime_ns, st.st_size)
     return out
 
 
-def rebuild(specs: Path, out: Path, state: State) -> None:
-    """Build once; record the errors instead of raising, so that serving goes on."""
+def rebuild(specs: Path, out: Path, state: State, history: bool = False) -> None:
+    """Build once (reusing unchanged specs' files from the cache); record the errors
+    instead of raising, so that serving goes on."""
     from .build import build
     from .publish import PublishError
     from .spec.problems import InputError
 
     t0 = time.perf_counter()
     errors: list[str] = []
+    reused = 0
     try:
-        build(specs, out, reload=True)
+        reused = build(specs, out, reload=True, history=history).reused
     except InputError as e:
         errors = [p.format() for p in e.problems]
     except PublishError as e:
@@ -78,7 +85,8 @@ def rebuild(specs: Path, out: Path, state: State) -> None:
         for line in errors:
             print("  " + line, file=sys.stderr)
     else:
-        print(f"[{when}] build {state.build} done in {state.seconds:.2f} s", file=sys.stderr)
+        note = f" ({reused} unchanged pages reused)" if reused else ""
+        print(f"[{when}] build {state.build} done in {state.seconds:.2f} s{note}", file=sys.stderr)
 
 
 _NO_SITE = """<!doctype html><html lang="en"><head><meta charset="utf-8"><title>colourspec: build failed</title>
@@ -126,35 +134,37 @@ def start_server(out: Path, state: State, port: int) -> http.server.ThreadingHTT
     return server
 
 
-def watch(specs: Path, out: Path, state: State, interval: float, stop: threading.Event) -> None:
+def watch(specs: Path, out: Path, state: State, interval: float, stop: threading.Event,
+          history: bool = False) -> None:
     from .render.pages import templates_dir
 
     templates = templates_dir()
-    seen = watched_files(specs, templates)
+    seen = watched_files(specs, templates, (out,))
     while not stop.wait(interval):
-        now = watched_files(specs, templates)
+        now = watched_files(specs, templates, (out,))
         if now != seen:
             seen = now
-            rebuild(specs, out, state)
+            rebuild(specs, out, state, history)
 
 
 def _stop_on_sigterm(signum, frame):
     raise KeyboardInterrupt
 
 
-def serve(specs: Path, out: Path, port: int = 8000, interval: float = 0.2) -> int:
-    """Serve until interrupted (Ctrl-C or SIGTERM); the server is shut down on the way out."""
+def serve(specs: Path, out: Path, port: int = 8000, interval: float = 0.2, history: bool = False) -> int:
+    """Serve until interrupted (Ctrl-C or SIGTERM); the server is shut down on the way out.
+    ``history`` shows each spec's git history, read again at every rebuild."""
     if threading.current_thread() is threading.main_thread():
         signal.signal(signal.SIGTERM, _stop_on_sigterm)
     state = State()
-    rebuild(specs, out, state)
+    rebuild(specs, out, state, history)
     server = start_server(out, state, port)
     host, bound = server.server_address[:2]
     print(f"Serving {out.as_posix().rstrip('/')}/ at http://{host}:{bound}/ ; watching {specs.as_posix()} and "
           "the templates (Ctrl-C stops)", file=sys.stderr)
     stop = threading.Event()
     try:
-        watch(specs, out, state, interval, stop)
+        watch(specs, out, state, interval, stop, history)
     except KeyboardInterrupt:
         print("colourspec: stopped serving", file=sys.stderr)
     finally:

@@ -46,7 +46,8 @@ def test_broken_spec_is_reported_in_the_status_and_the_last_good_site_stays(tmp_
     rebuild(specs, out, state)
     status = json.loads(state.status_json())
     assert status["build"] == 2
-    assert status["errors"] and status["errors"][0].startswith(f"{specs.as_posix()}/corvinta-atlas-27-studio.yaml:")
+    # a specs folder outside the working folder is named from its parent (display_path)
+    assert status["errors"] and status["errors"][0].startswith("specs/corvinta-atlas-27-studio.yaml:8:7: ")
     assert "YAML syntax error" in status["errors"][0]
     assert (out / "index.html").read_bytes() == good
 
@@ -101,3 +102,29 @@ def test_server_without_a_site_yet_shows_a_page_that_waits_for_a_good_build(tmp_
     finally:
         server.shutdown()
         server.server_close()
+
+
+def test_a_rebuild_redraws_only_the_edited_spec_from_the_incremental_cache(tmp_path, capsys):
+    specs = copy_demo(tmp_path)
+    out = tmp_path / "site"
+    state = State()
+    rebuild(specs, out, state)
+    p = specs / "corvinta-prism-5-cinema.yaml"
+    p.write_text(p.read_text(encoding="utf-8").replace("revision: ", "revision: X", 1), encoding="utf-8")
+    rebuild(specs, out, state)
+    err = capsys.readouterr().err.splitlines()
+    assert "reused" not in err[0]
+    assert err[1].endswith(" (5 unchanged pages reused)")
+    assert '<script src="../static/reload.js"></script>' in (out / "corvinta-prism-5-cinema" / "index.html").read_text(
+        encoding="utf-8")
+
+
+def test_the_watch_leaves_out_hidden_folders_and_the_site(tmp_path):
+    specs = copy_demo(tmp_path)
+    (specs / ".cache").mkdir()
+    (specs / ".cache" / "entry").write_text("x", encoding="utf-8")
+    (specs / "site").mkdir()
+    (specs / "site" / "index.html").write_text("x", encoding="utf-8")
+    files = watched_files(specs, templates_dir(), (specs / "site",))
+    assert not any("/.cache/" in k or k.endswith("site/index.html") for k in files)
+    assert any(k.endswith("corvinta-prism-5-cinema.yaml") for k in files)

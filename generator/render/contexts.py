@@ -27,7 +27,8 @@ class FigureView(TypedDict):
 
 class SpecContext(Base):
     """templates/spec.html"""
-    spec: dict          # id, title, product, revision, status, file, observer, extends, family, owner, inherited
+    spec: dict          # id, title, product, revision, status, file, observer, extends, family, owner,
+                        # inherited: sorted (dotted key path, ancestor id) pairs
     verdict: str        # pass | fail | indeterminate
     verdict_symbol: str
     counts: dict        # rows, fail, indeterminate, units, units_fail
@@ -47,6 +48,8 @@ class SpecContext(Base):
     methods: list[tuple[str, str]]
     caution: str        # the safety caution for signal/safety/lighting specs, else ''
     warnings: list[str]
+    history: list[dict] | None  # commit, date, revision, change, subject (history.py), newest first;
+                                # None: no history section (build without history)
     sections: list[tuple[str, str]]  # (anchor, heading) for the page's table of contents
 
 

@@ -9,7 +9,6 @@ import json
 
 from ..publish import SiteFiles
 from .contexts import IndexContext, SpecContext
-from .diagrams import spec_figures
 from .pages import CAUTION, CAUTION_CATEGORIES, environment, fmt, methods, render_markdown, row_view, templates_dir
 from .results import dumps
 from .swatch import swatch_hex
@@ -34,6 +33,10 @@ def _sections(ctx) -> list[tuple[str, str]]:
         out.append(("units", "Measured units"))
     if ctx["notes_html"]:
         out.append(("notes", "Notes"))
+    if ctx["spec"]["inherited"]:
+        out.append(("inherited", "Inherited values"))
+    if ctx["history"] is not None:
+        out.append(("history", "History"))
     out += [("methods", "How this was computed"), ("downloads", "Downloads")]
     return out
 
@@ -46,7 +49,9 @@ def _what(row) -> str:
     return f"{subject}: {label}"
 
 
-def spec_context(e, figs, site_url: str | None = None) -> SpecContext:
+def spec_context(e, figs, site_url: str | None = None, history=None) -> SpecContext:
+    """``history``: the spec file's history entries (generator/history.py), or None for
+    no history section."""
     spec, d, a = e.spec, e.derived, e.assessment
     rows = [row_view(r) for r in a.rows]
     design = [r for r in rows if r["sample"] is None]
@@ -97,6 +102,7 @@ def spec_context(e, figs, site_url: str | None = None) -> SpecContext:
         "root": "../",
         "canonical": canonical(site_url, f"{spec.id}/index.html"),
         "reload": False,
+        "history": [h.as_json() for h in history] if history is not None else None,
     }
     ctx["sections"] = _sections(ctx)
     return ctx
@@ -142,21 +148,58 @@ def index_context(evaluated, site_url: str | None = None) -> IndexContext:
             "root": "", "canonical": canonical(site_url, "index.html"), "reload": False}
 
 
-def render_site(evaluated, results: dict, site_url: str | None = None, reload: bool = False):
-    """The whole site as SiteFiles; ``reload`` adds the live-preview script (``serve``)."""
+def spec_files(e, env, history=None, site_url: str | None = None, reload: bool = False) -> dict[str, bytes]:
+    """The costly part of a spec's output (name -> bytes): each diagram's SVG with its
+    numbers as CSV and JSON, and the page."""
+    from .diagrams import spec_figures  # imported only when a figure is drawn (matplotlib is slow to load)
+
+    figs = spec_figures(e)
+    files = {}
+    for f in figs:
+        files[f["file"]] = f["svg"].encode("utf-8")
+        files[f["csv"]] = f["data_csv"].encode("utf-8")
+        files[f["json"]] = f["data_json"].encode("utf-8")
+    ctx = spec_context(e, figs, site_url, history)
+    ctx["reload"] = reload
+    files["index.html"] = env.get_template("spec.html").render(**ctx).encode("utf-8")
+    return files
+
+
+def _key_extra(history, site_url: str | None, reload: bool) -> str:
+    """What a spec's files depend on besides the specs and the tool: its history, the
+    site's public address (canonical links) and the live-reload script."""
+    parts = [json.dumps([h.as_json() for h in history]) if history is not None else ""]
+    if site_url:
+        parts.append(f"site_url={site_url}")
+    if reload:
+        parts.append("reload")
+    return "\0".join(parts)
+
+
+def render_site(evaluated, results: dict, cache=None, histories=None, *, site_url: str | None = None,
+                reload: bool = False):
+    """The whole site as SiteFiles. With a cache (generator/cache.py), a spec whose inputs
+    are unchanged takes its diagrams, their data files and its page from it instead of
+    drawing them again. ``histories`` (file -> history entries, generator/history.py) adds
+    a history section; ``site_url`` adds canonical links; ``reload`` adds the
+    live-preview script (``serve``)."""
+    from ..cache import spec_key
+
     env = environment()
     site = SiteFiles()
     n_fig = 0
+    by_id = {e.spec.id: e.spec for e in evaluated}
     for e in evaluated:
-        figs = spec_figures(e)
-        n_fig += len(figs)
-        for f in figs:
-            site.add(f"{e.spec.id}/{f['file']}", f["svg"])
-            site.add(f"{e.spec.id}/{f['csv']}", f["data_csv"])
-            site.add(f"{e.spec.id}/{f['json']}", f["data_json"])
-        ctx = spec_context(e, figs, site_url)
-        ctx["reload"] = reload
-        site.add(f"{e.spec.id}/index.html", env.get_template("spec.html").render(**ctx))
+        history = histories.get(e.spec.file, []) if histories is not None else None
+        key = spec_key(e.spec, by_id, _key_extra(history, site_url, reload)) if cache is not None else ""
+        files = cache.get(key) if cache is not None else None
+        if files is None:
+            files = spec_files(e, env, history, site_url, reload)
+            if cache is not None:
+                cache.put(key, files)
+        n_fig += sum(name.endswith(".svg") for name in files)
+        for name in sorted(files):
+            site.add(f"{e.spec.id}/{name}", files[name])
         entry = next(s for s in results["specs"] if s["id"] == e.spec.id)
         site.add(f"{e.spec.id}/results.json", json.dumps(entry, indent=2, ensure_ascii=False) + "\n")
     ictx = index_context(evaluated, site_url)
