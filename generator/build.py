@@ -69,5 +69,5 @@ def build(specs_path: Path, out: Path) -> Summary:
     evaluated, warnings = evaluate(specs_path)
     results = results_of(evaluated)
     site, n_pages, n_figures = render_site(evaluated, results)
-    publish(site, out)
+    publish(site, out, protect=(specs_path,))
     return Summary(evaluated, warnings, results, n_pages, n_figures, time.perf_counter() - t0)

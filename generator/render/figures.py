@@ -52,6 +52,14 @@ class Layer:
     observer: str = "cie1931-2"
 
 
+def plain_text(text: str) -> str:
+    """Spec text as matplotlib draws it literally: '$' would start mathtext (a stray
+    '$\\frac{' raises while saving) and a leading '_' hides a legend entry. The SVG
+    writer escapes <, > and &; this only stops matplotlib from interpreting the text."""
+    text = str(text).replace("$", r"\$")
+    return "\u200b" + text if text.startswith("_") else text
+
+
 def _to(diagram, xy):
     xy = np.asarray(xy, dtype=float)
     return xy if diagram == "xy" else xy_to_uv_prime(xy)
@@ -82,7 +90,7 @@ def chromaticity_diagram(layer: Layer, diagram: str):
     ax.plot(*pl.T, color=PALETTE["planck"], lw=0.8, zorder=3, label="Planckian locus")
     for i, (title, hull) in enumerate(layer.references):
         colour, dash = REFERENCE_STYLES[i % len(REFERENCE_STYLES)]
-        ax.plot(*_closed(_to(diagram, hull)).T, color=colour, ls=dash, lw=1.1, zorder=4, label=title)
+        ax.plot(*_closed(_to(diagram, hull)).T, color=colour, ls=dash, lw=1.1, zorder=4, label=plain_text(title))
     if layer.gamut_xy is not None:
         g = _to(diagram, layer.gamut_xy)
         ax.plot(*_closed(g).T, color=PALETTE["gamut"], lw=1.8, zorder=5, label="spec gamut")
@@ -91,7 +99,7 @@ def chromaticity_diagram(layer: Layer, diagram: str):
     for name, xy in layer.primaries:
         p = _to(diagram, xy)
         ax.plot(*p, marker="+", color=PALETTE["target"], ms=8, zorder=7)
-        ax.annotate(name, p, xytext=(5, 5), textcoords="offset points", fontsize=8, zorder=8)
+        ax.annotate(plain_text(name), p, xytext=(5, 5), textcoords="offset points", fontsize=8, zorder=8)
     if layer.white_xy is not None:
         ax.plot(*_to(diagram, layer.white_xy), marker="*", color=PALETTE["target"], ms=9, zorder=7,
                 label="white target", ls="none")
@@ -102,7 +110,7 @@ def chromaticity_diagram(layer: Layer, diagram: str):
         ax.set(xlim=(-0.04, 0.66), ylim=(-0.02, 0.64), xlabel="u'", ylabel="v'")
     ax.set_aspect("equal")
     ax.grid(color=PALETTE["grid"], lw=0.4)
-    ax.set_title(layer.title, fontsize=10)
+    ax.set_title(plain_text(layer.title), fontsize=10)
     ax.legend(loc="upper right" if diagram == "xy" else "lower right", fontsize=7, frameon=True)
     return fig, ax
 
@@ -141,14 +149,14 @@ def white_closeup(layer: Layer, span: float = 0.02):
         ax.text(*iso[1], f"{t} K", fontsize=6, color="#555555", ha="center", va="bottom", clip_on=True)
     for label, poly in layer.tolerances:
         ax.plot(*_closed(xy_to_uv_prime(np.asarray(poly))).T, color=PALETTE["tolerance"], lw=1.0,
-                zorder=3, label=label)
+                zorder=3, label=plain_text(label))
     ax.plot(*w, marker="*", color=PALETTE["target"], ms=11, ls="none", zorder=5, label="white target")
     _units(ax, layer.units, lambda xy: xy_to_uv_prime(np.array(xy)))
     ax.set(xlim=(w[0] - half, w[0] + half), ylim=(w[1] - half * 0.8, w[1] + half * 0.8),
            xlabel="u'", ylabel="v'")
     ax.set_aspect("equal")
     ax.grid(color=PALETTE["grid"], lw=0.4)
-    ax.set_title(layer.title, fontsize=10)
+    ax.set_title(plain_text(layer.title), fontsize=10)
     ax.legend(loc="upper left", fontsize=7, frameon=True)
     return fig, ax
 

@@ -12,7 +12,8 @@ from pathlib import Path
 from .problems import InputError, Problems, did_you_mean
 from .schema import SPEC
 from .types import INVALID, describe
-from .yamlnodes import Map, Mark, Node, Scalar, parse_yaml
+from .limits import limits
+from .yamlnodes import Map, Mark, Node, Scalar, parse_yaml, too_big
 
 SPEC_SUFFIXES = (".yaml", ".yml")
 
@@ -52,14 +53,20 @@ def discover(specs: Path, problems: Problems) -> list[Path]:
 def read_sources(files: list[Path], problems: Problems) -> list[SourceSpec]:
     out: list[SourceSpec] = []
     seen: dict[str, SourceSpec] = {}
+    lim = limits()
     for path in files:
         shown = display_path(path)
         try:
-            data = path.read_bytes()
+            with open(path, "rb") as f:
+                size = os.fstat(f.fileno()).st_size
+                if size > lim.max_bytes:  # refused before reading: memory stays bounded
+                    too_big(shown, size, lim, problems)
+                    continue
+                data = f.read(lim.max_bytes + 1)
         except OSError as e:
             problems.error(Mark(shown, 1, 1), "", f"cannot read the file: {e.strerror}")
             continue
-        node = parse_yaml(data, shown, problems)
+        node = parse_yaml(data, shown, problems, lim)
         if node is None:
             continue
         if not isinstance(node, Map):
