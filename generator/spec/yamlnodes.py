@@ -247,15 +247,18 @@ def _check_size(root, file: str, lim: Limits) -> None:
         stack.extend((c, False) for c in _children(n) if id(c) not in size)
 
 
+# The tags a plain document resolves to, and '!' (the non-specific tag of quoted text).
+_PLAIN_TAGS = {"", "!"} | {f"tag:yaml.org,2002:{t}" for t in ("str", "int", "float", "bool", "null", "seq", "map")}
+
+
 def _convert(n, file, problems, depth, path, lim: Limits) -> Node:
     mark = _mark(file, n.start_mark)
     if depth > lim.max_depth:
         raise _TooBig(f"expected at most {lim.max_depth} levels of nesting, found more", mark, _DEPTH_HINT)
     tag = n.tag or ""
-    if tag.startswith("tag:yaml.org,2002:"):
-        tag = ""
-    if tag and tag != "!":
-        problems.error(mark, path, f"expected a plain value, found the YAML tag {n.tag!r}", "remove the tag")
+    if tag not in _PLAIN_TAGS:  # !!python/..., !!binary, !!set, local tags: refused, never constructed
+        shown = "!!" + tag.removeprefix("tag:yaml.org,2002:") if tag.startswith("tag:yaml.org,2002:") else tag
+        problems.error(mark, path, f"expected a plain value, found the YAML tag {shown!r}", "remove the tag")
     if isinstance(n, yaml.ScalarNode):
         return Scalar(n.value, n.style in (None, ""), mark)
     if isinstance(n, yaml.SequenceNode):
