@@ -3,12 +3,14 @@
 | variable | default | refuses |
 |---|---|---|
 | COLOURSPEC_MAX_BYTES | 8388608 (8 MiB) | a YAML file larger than this, before reading it |
-| COLOURSPEC_MAX_NODES | 200000 | a document with more values than this, counted while parsing and again once aliases are expanded (a "billion laughs" bomb) |
+| COLOURSPEC_MAX_NODES | 50000 | a document with more values than this, counted while parsing and again once aliases are expanded (a "billion laughs" bomb) |
 | COLOURSPEC_MAX_DEPTH | 64 | mappings and lists nested deeper than this (at most 200) |
 
 Each is refused with a FILE:LINE:COL problem (exit 2) before the document is built in
 memory, so a hostile file costs time and memory in proportion to the limit, not to
-what it would expand to. A setting that is not a whole number in range is a usage
+what it would expand to. The node limit is what keeps a refusal within a second: a
+spec needs a few hundred values (a few thousand with many inline units), and building
+50000 values takes about 0.3 s on a slow machine (tests/bench_limits.py). A setting that is not a whole number in range is a usage
 error (exit 2).
 """
 from __future__ import annotations
@@ -24,7 +26,7 @@ class LimitsError(Exception):
 @dataclass(frozen=True)
 class Limits:
     max_bytes: int = 8 * 1024 * 1024
-    max_nodes: int = 200_000
+    max_nodes: int = 50_000
     max_depth: int = 64
 
 

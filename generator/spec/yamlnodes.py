@@ -104,7 +104,7 @@ def parse_yaml(data: bytes, file: str, problems: Problems, lim: Limits | None = 
                        "expected text, found a NUL character (is this a binary file?)")
         return None
     try:
-        _scan_events(text, file, lim)  # streaming: refuses before any node is built
+        aliases = _scan_events(text, file, lim)  # streaming: refuses before any node is built
         nodes = list(yaml.compose_all(text, Loader=_Loader))
     except _TooBig as e:
         problems.error(e.mark, "", str(e), e.hint)
@@ -125,7 +125,8 @@ def parse_yaml(data: bytes, file: str, problems: Problems, lim: Limits | None = 
                        "put each spec in a file of its own")
         return None
     try:
-        _check_size(nodes[0], file, lim)
+        if aliases:
+            _check_size(nodes[0], file, lim)
         return _convert(nodes[0], file, problems, 0, "", lim)
     except _TooBig as e:
         problems.error(e.mark, "", str(e), e.hint)
@@ -137,12 +138,13 @@ _NODES_HINT = "a spec needs a few hundred values; set COLOURSPEC_MAX_NODES to al
 _NODE_EVENTS = (yaml.ScalarEvent, yaml.AliasEvent, yaml.SequenceStartEvent, yaml.MappingStartEvent)
 
 
-def _scan_events(text: str, file: str, lim: Limits) -> None:
+def _scan_events(text: str, file: str, lim: Limits) -> int:
     """Count values and nesting in the parser's event stream, which costs constant memory,
-    and refuse a document over the limits before composing it into nodes."""
+    and refuse a document over the limits before composing it into nodes. Returns the
+    number of aliases (without any, the expanded size is the count just checked)."""
     loader = _Loader(text)
     depth = -1  # the depth of the innermost open collection; the document's root is 0
-    count = 0
+    count = aliases = 0
     try:
         while loader.check_event():
             ev = loader.get_event()
@@ -156,10 +158,13 @@ def _scan_events(text: str, file: str, lim: Limits) -> None:
                                   _mark(file, ev.start_mark), _NODES_HINT)
                 if isinstance(ev, (yaml.SequenceStartEvent, yaml.MappingStartEvent)):
                     depth += 1
+                elif isinstance(ev, yaml.AliasEvent):
+                    aliases += 1
             elif isinstance(ev, (yaml.SequenceEndEvent, yaml.MappingEndEvent)):
                 depth -= 1
     finally:
         loader.dispose()
+    return aliases
 
 
 def _syntax_error(e: yaml.YAMLError, text: str, file: str, problems: Problems, lim: Limits = DEFAULTS) -> None:
