@@ -158,3 +158,32 @@ def test_no_payload_runs_in_headless_chromium(payload_site):
     assert [s for s in seen if s[1:] != ("undefined", False)] == []
     assert dialogs == []
     assert len(seen) == len(targets) >= 8
+
+
+# --- property: whatever the notes say, the sanitised HTML has no active part --------------
+
+from hypothesis import given, settings  # noqa: E402
+from hypothesis import strategies as st  # noqa: E402
+
+from generator.render.pages import render_markdown  # noqa: E402
+
+PIECES = st.sampled_from([
+    "<script>", "</script>", "<img src=x onerror=alert(1)>", "<a href=\"javascript:alert(1)\">", "</a>",
+    "[l](javascript:alert(1))", "![i](data:image/png;base64,AAAA)", "[d](data:text/html,x)", "<svg onload=x>",
+    "<iframe>", "<style>", "`", "```\n", "\n\n", "> ", "* ", "| a | b |\n|---|---|\n", "&#106;", "&lt;", "java",
+    "script:", "<", ">", "\"", "'", "=", " ", "x", "<div onclick=\"", "<p style=\"x\">", "<!--", "-->",
+    "<![CDATA[", "]]>", "\\", "[r]: javascript:x\n", "[r][r]", "<a href=\"https://example.invalid\">",
+])
+
+
+@settings(max_examples=300, deadline=None)
+@given(st.lists(PIECES, max_size=14).map("".join))
+def test_sanitised_notes_never_carry_script_handlers_or_unsafe_urls(text):
+    out = render_markdown(text)
+    for tag, attrs in tags_of(out):
+        assert tag not in FORBIDDEN_TAGS | {"img", "div"}, (text, out)
+        assert not [a for a in attrs if a.startswith("on") or a == "style"], (text, out)
+        for a in ("href", "src"):
+            v = (attrs.get(a) or "").strip().lower()
+            if ":" in v.split("/")[0]:  # has a scheme: only these
+                assert v.startswith(("https:", "http:", "mailto:")), (text, out)

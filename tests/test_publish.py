@@ -8,7 +8,7 @@ import signal
 import subprocess
 import sys
 import textwrap
-from pathlib import Path
+from pathlib import Path, PurePosixPath
 
 import pytest
 
@@ -345,3 +345,26 @@ def test_replacing_a_site_never_moves_it_aside_where_exchange_exists(tmp_path, m
     publish(site_of({"index.html": "two"}), out)
     assert renames == []  # no moment without a site: one exchange, no renames
     assert (out / "index.html").read_text(encoding="utf-8") == "two"
+
+
+# --- property: any path the site is given lands inside the site, or is refused ----------------
+
+from hypothesis import given  # noqa: E402
+from hypothesis import strategies as st  # noqa: E402
+
+PATH_PARTS = st.sampled_from(["a", "b.html", "..", ".", "", "/", "\\", "~", "c d", "é", "\x00", "\n", "%2e%2e"])
+
+
+@given(st.lists(PATH_PARTS, min_size=1, max_size=6).map("".join))
+def test_any_site_path_is_refused_or_stays_inside_the_site(rel):
+    import posixpath
+
+    s = SiteFiles()
+    try:
+        s.add(rel, "x")
+    except PublishError:
+        return
+    norm = posixpath.normpath(rel)
+    assert norm == rel and not norm.startswith("/") and ".." not in PurePosixPath(rel).parts
+    assert "\x00" not in rel and "\n" not in rel
+    assert Path("/site", rel).resolve().is_relative_to(Path("/site").resolve())

@@ -27,16 +27,17 @@ _CCT = Field(Number("correlated colour temperature, K", minimum=1000.0, maximum=
              True)
 _DUV = Field(Number("signed distance from the Planckian locus in CIE 1960 uv (positive above); "
                     "CIE 15 holds CCT meaningful within 0.05", minimum=-0.05, maximum=0.05))
+MAX_TRISTIMULUS = 1e12  # CIE XYZ: far above any light source; keeps the sum X + Y + Z finite
 _LUM = Field(Number("luminance, cd/m²", minimum=0.0, unit="cd/m2"))
 
 BOX = Record({
-    "dx": Field(Number("half-width in CIE 1931 x", exclusive_minimum=0.0), True),
-    "dy": Field(Number("half-height in CIE 1931 y", exclusive_minimum=0.0), True),
+    "dx": Field(Number("half-width in CIE 1931 x", exclusive_minimum=0.0, maximum=1.0), True),
+    "dy": Field(Number("half-height in CIE 1931 y", exclusive_minimum=0.0, maximum=1.0), True),
 }, "a rectangle centred on the target in CIE 1931 xy: |x − x0| <= dx and |y − y0| <= dy")
 
 ELLIPSE = Record({
-    "a": Field(Number("semi-major axis in CIE 1931 xy", exclusive_minimum=0.0), True),
-    "b": Field(Number("semi-minor axis in CIE 1931 xy", exclusive_minimum=0.0), True),
+    "a": Field(Number("semi-major axis in CIE 1931 xy", exclusive_minimum=0.0, maximum=1.0), True),
+    "b": Field(Number("semi-minor axis in CIE 1931 xy", exclusive_minimum=0.0, maximum=1.0), True),
     "angle": Field(Number("angle of the major axis from the +x axis, degrees",
                           minimum=-360.0, maximum=360.0), True),
 }, "an ellipse centred on the target in CIE 1931 xy")
@@ -60,7 +61,7 @@ def _point_xy(node, path, problems):
 def _tolerance(white: bool) -> Record:
     f = {
         "delta_uv": Field(Number("radius of a circle around the target in CIE 1976 u'v'",
-                                 exclusive_minimum=0.0)),
+                                 exclusive_minimum=0.0, maximum=1.0)),
         "box": Field(BOX, description=BOX.description),
         "ellipse": Field(ELLIPSE, description=ELLIPSE.description),
         "region": Field(REGION, description=REGION.description),
@@ -99,9 +100,9 @@ def _forms(extra: dict[str, Field], names: bool, cct: bool, xyz: bool) -> dict[s
     if cct:
         forms["cct"] = Record({"cct": _CCT, "duv": _DUV, **extra})
     if xyz:
-        forms["XYZ"] = Record({"X": Field(Number("CIE X", minimum=0.0), True),
-                               "Y": Field(Number("CIE Y, cd/m²", minimum=0.0), True),
-                               "Z": Field(Number("CIE Z", minimum=0.0), True), **extra})
+        forms["XYZ"] = Record({"X": Field(Number("CIE X", minimum=0.0, maximum=MAX_TRISTIMULUS), True),
+                               "Y": Field(Number("CIE Y, cd/m²", minimum=0.0, maximum=MAX_TRISTIMULUS), True),
+                               "Z": Field(Number("CIE Z", minimum=0.0, maximum=MAX_TRISTIMULUS), True), **extra})
     return forms
 
 
