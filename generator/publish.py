@@ -169,7 +169,8 @@ def _swap_in(tmp: Path, out: Path) -> None:
 def _locked(folder: Path):
     fd = os.open(folder, os.O_RDONLY)
     try:
-        fcntl.flock(fd, fcntl.LOCK_EX)
+        with contextlib.suppress(OSError):  # a filesystem without locks: build without one
+            fcntl.flock(fd, fcntl.LOCK_EX)
         yield
     finally:
         os.close(fd)
@@ -197,6 +198,14 @@ def publish(site: SiteFiles, out: Path, protect: tuple[Path, ...] = ()) -> Path:
     """Write ``site`` to ``out`` in one swap; ``protect`` are paths (the specs) that the
     output must not contain. Returns the real output path."""
     real = check_output(out, protect)
+    try:
+        return _publish(site, out, real, protect)
+    except OSError as e:  # the disk, not the specs or the tool: say where and why
+        raise PublishError(f"cannot write the site to {out}: {e.strerror or e}"
+                           + (f" ({e.filename})" if e.filename else "")) from e
+
+
+def _publish(site: SiteFiles, out: Path, real: Path, protect: tuple[Path, ...]) -> Path:
     real.parent.mkdir(parents=True, exist_ok=True)
     epoch = _source_date_epoch()
     with _locked(real.parent):

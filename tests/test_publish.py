@@ -246,8 +246,9 @@ def test_a_failure_while_writing_leaves_the_previous_site_and_no_temporary_folde
     publish(site_of({"index.html": "one"}), out)
     before = snapshot(out)
     bad = site_of({"a": "a file", "a/b.html": "needs a to be a folder"})  # fails midway
-    with pytest.raises(OSError):
+    with pytest.raises(PublishError) as e:
         publish(bad, out)
+    assert str(e.value).startswith(f"cannot write the site to {out}: File exists (")
     assert snapshot(out) == before
     assert leftovers(tmp_path) == []
 
@@ -368,3 +369,13 @@ def test_any_site_path_is_refused_or_stays_inside_the_site(rel):
     assert norm == rel and not norm.startswith("/") and ".." not in PurePosixPath(rel).parts
     assert "\x00" not in rel and "\n" not in rel
     assert Path("/site", rel).resolve().is_relative_to(Path("/site").resolve())
+
+
+def test_an_output_folder_that_cannot_be_made_is_an_error_not_a_crash(tmp_path, capsys):
+    (tmp_path / "a-file").write_text("x", encoding="utf-8")
+    specs = tmp_path / "specs"
+    specs.mkdir()
+    (specs / "tiny.yaml").write_text(TINY, encoding="utf-8")
+    out = tmp_path / "a-file" / "site"
+    assert main(["build", str(specs), "-o", str(out)]) == 2
+    assert capsys.readouterr().err.startswith(f"colourspec: cannot write the site to {out}: ")
