@@ -162,7 +162,7 @@ def test_no_payload_runs_in_headless_chromium(payload_site):
 
 # --- property: whatever the notes say, the sanitised HTML has no active part --------------
 
-from hypothesis import given, settings  # noqa: E402
+from hypothesis import example, given, settings  # noqa: E402
 from hypothesis import strategies as st  # noqa: E402
 
 from generator.render.pages import render_markdown  # noqa: E402
@@ -187,3 +187,44 @@ def test_sanitised_notes_never_carry_script_handlers_or_unsafe_urls(text):
             v = (attrs.get(a) or "").strip().lower()
             if ":" in v.split("/")[0]:  # has a scheme: only these
                 assert v.startswith(("https:", "http:", "mailto:")), (text, out)
+
+
+# --- property: any text as a title is shown as that text in pages and diagrams ------------
+
+TEXT = st.text(st.characters(min_codepoint=0x20, max_codepoint=0x7e) | st.sampled_from("éß漢字€\u05d0\u200f\u00a0"),
+               min_size=1, max_size=30)
+
+
+def yaml_quoted(text: str) -> str:
+    return '"' + text.replace("\\", "\\\\").replace('"', '\\"') + '"'
+
+
+@settings(max_examples=6, deadline=None)
+@given(TEXT)
+@example("$x^2$ and </text>")
+@example("_hidden & 字")
+def test_any_title_is_escaped_in_pages_and_drawn_literally_in_svg(title):
+    import tempfile
+
+    from generator.build import evaluate, results_of
+    from generator.render.site import render_site
+
+    with tempfile.TemporaryDirectory() as d:
+        specs = Path(d)
+        (specs / "base.yaml").write_text("spec: 1\nid: fuzz-base\ntitle: " + yaml_quoted(title) + "\n"
+                                         "primaries:\n  red: {x: 0.64, y: 0.33}\n  green: {x: 0.30, y: 0.60}\n"
+                                         "  blue: {x: 0.15, y: 0.06}\n", encoding="utf-8")
+        (specs / "other.yaml").write_text("spec: 1\nid: fuzz-other\nextends: fuzz-base\ntitle: other\n"
+                                          "gamut:\n  - {reference: fuzz-base, metric: coverage, min: 1}\n",
+                                          encoding="utf-8")
+        evaluated, _ = evaluate(specs)
+    site, _, _ = render_site(evaluated, results_of(evaluated))
+    page = site.files["fuzz-base/index.html"].decode()
+    h1 = re.search(r"<h1>(.*?)</h1>", page, re.DOTALL).group(1)
+    assert html.unescape(h1) == title
+    assert not [t for t, _ in tags_of(h1)]
+    drawn = []
+    for rel, data in site.files.items():
+        if rel.endswith(".svg"):
+            drawn += [el.text for el in ET.fromstring(data).iter() if el.text]
+    assert any(t.removeprefix("\u200b") == title for t in drawn), (title, drawn[-12:])

@@ -6,6 +6,7 @@ returns the SVG text. The caller decides where it goes.
 from __future__ import annotations
 
 import io
+import warnings
 from dataclasses import dataclass
 
 import matplotlib
@@ -163,7 +164,11 @@ def white_closeup(layer: Layer, span: float = 0.02):
 
 def save_svg(fig) -> str:
     buf = io.StringIO()
-    fig.savefig(buf, format="svg", metadata={"Date": None, "Creator": None}, bbox_inches="tight")
+    with warnings.catch_warnings():
+        # text is written as SVG text (svg.fonttype none) and drawn by the reader's fonts, so a
+        # character missing from the layout font (CJK in a title) only affects spacing
+        warnings.filterwarnings("ignore", message=r"Glyph \d+ .* missing from font", category=UserWarning)
+        fig.savefig(buf, format="svg", metadata={"Date": None, "Creator": None}, bbox_inches="tight")
     plt.close(fig)
     return buf.getvalue()
 
