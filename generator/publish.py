@@ -33,7 +33,7 @@ from pathlib import Path, PurePosixPath
 MARKER = ".colourspec-site"
 MARKER_TEXT = b"This folder is a site written by colourspec build; the next build replaces it whole.\n"
 SPEC_SUFFIXES = (".yaml", ".yml")
-_SCAN_LIMIT = 20_000  # entries looked at when asking whether a folder holds specs
+_SCAN_LIMIT = 20_000  # entries looked at when asking whether a foreign folder holds specs
 
 
 class PublishError(Exception):
@@ -79,14 +79,16 @@ class SiteFiles:
         self.files[rel] = content.encode("utf-8") if isinstance(content, str) else content
 
 
-def _holds_specs(folder: Path) -> bool:
-    """Whether a folder (not following links) holds a spec file; a folder too large to
-    look through counts as holding specs."""
+def _holds_specs(folder: Path, limit: int | None) -> bool:
+    """Whether a folder (not following links) holds a spec file, looking at no more than
+    ``limit`` entries (the answer only chooses the message for a folder refused anyway)."""
     seen = 0
     for _, dirs, files in os.walk(folder):
-        seen += len(dirs) + len(files)
-        if any(f.endswith(SPEC_SUFFIXES) for f in files) or seen > _SCAN_LIMIT:
+        if any(f.endswith(SPEC_SUFFIXES) for f in files):
             return True
+        seen += len(dirs) + len(files)
+        if limit is not None and seen > limit:
+            return False
     return False
 
 
@@ -127,9 +129,10 @@ def check_output(out: Path, protect: tuple[Path, ...] = ()) -> Path:
         if not real.is_dir():
             raise PublishError(f"refusing to write the site to {shown}: it exists and is not a folder")
         if any(real.iterdir()):
-            if _holds_specs(real):
+            ours = _is_our_site(real)  # our own site is looked through whole; anything else is refused
+            if _holds_specs(real, None if ours else _SCAN_LIMIT):
                 raise PublishError(f"refusing to replace {shown}: it holds spec files and is not a built site")
-            if not _is_our_site(real):
+            if not ours:
                 raise PublishError(f"refusing to replace {shown}: it is not empty and not a site written by "
                                    f"colourspec (no {MARKER}); choose another folder or empty it yourself")
     return real

@@ -379,3 +379,14 @@ def test_an_output_folder_that_cannot_be_made_is_an_error_not_a_crash(tmp_path, 
     out = tmp_path / "a-file" / "site"
     assert main(["build", str(specs), "-o", str(out)]) == 2
     assert capsys.readouterr().err.startswith(f"colourspec: cannot write the site to {out}: ")
+
+
+def test_a_previous_site_with_spec_files_put_into_it_is_not_replaced(tmp_path):
+    out = tmp_path / "site"
+    publish(site_of({"index.html": "one"}), out)
+    (out / "deep" / "er").mkdir(parents=True)
+    (out / "deep" / "er" / "panel.yml").write_text("spec: 1\n", encoding="utf-8")
+    with pytest.raises(PublishError) as e:
+        publish(site_of({"index.html": "two"}), out)
+    assert str(e.value) == f"refusing to replace {out}: it holds spec files and is not a built site"
+    assert (out / "index.html").read_text(encoding="utf-8") == "one"
