@@ -6,7 +6,6 @@ shared machine."""
 from __future__ import annotations
 
 import os
-import resource
 import subprocess
 import sys
 import tempfile
@@ -35,9 +34,8 @@ CASES = {
 
 
 CHILD = ("import resource, sys, time\nfrom generator.cli import main\nt = time.perf_counter()\n"
-         "s = main(['check', 'specs'])\n"
-         "sys.stderr.write(f'CHECK {time.perf_counter() - t:.3f} RSS {resource.getrusage(resource.RUSAGE_SELF).ru_maxrss}')"
-         "\nsys.exit(s)")
+         "s = main(['check', 'specs'])\nrss = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss\n"
+         "sys.stderr.write(f'CHECK {time.perf_counter() - t:.3f} RSS {rss}')\nsys.exit(s)")
 
 
 def run(name: str, data: bytes | None, sparse: int = 0) -> None:
@@ -57,7 +55,8 @@ def run(name: str, data: bytes | None, sparse: int = 0) -> None:
         rss = int(r.stderr.rsplit("RSS ", 1)[1])
         inside = float(r.stderr.rsplit("CHECK ", 1)[1].split()[0])
         first = next((ln for ln in r.stderr.splitlines() if ln.startswith("specs/")), r.stderr.strip()[-60:])
-        print(f"{name:36s} exit {r.returncode}  {dt:5.2f} s ({inside:5.2f} s in check)  peak RSS {rss / 1024:5.0f} MiB  {first[:80]}")
+        print(f"{name:36s} exit {r.returncode}  {dt:5.2f} s ({inside:5.2f} s in check)  "
+              f"peak RSS {rss / 1024:5.0f} MiB  {first[:80]}")
 
 
 if __name__ == "__main__":

@@ -1,17 +1,17 @@
 """Resource limits for reading input, configurable with environment variables.
 
-| variable | default | refuses |
-|---|---|---|
-| COLOURSPEC_MAX_BYTES | 8388608 (8 MiB) | a YAML file larger than this, before reading it |
-| COLOURSPEC_MAX_NODES | 50000 | a document with more values than this, counted while parsing and again once aliases are expanded (a "billion laughs" bomb) |
-| COLOURSPEC_MAX_DEPTH | 64 | mappings and lists nested deeper than this (at most 200) |
+- COLOURSPEC_MAX_BYTES, default 8388608 (8 MiB): a YAML file larger than this, refused
+  before it is read;
+- COLOURSPEC_MAX_NODES, default 50000: a document with more values than this, counted
+  while parsing and again once aliases are expanded (a "billion laughs" bomb);
+- COLOURSPEC_MAX_DEPTH, default 64 (at most 200): mappings and lists nested deeper.
 
 Each is refused with a FILE:LINE:COL problem (exit 2) before the document is built in
 memory, so a hostile file costs time and memory in proportion to the limit, not to
-what it would expand to. The node limit is what keeps a refusal within a second: a
-spec needs a few hundred values (a few thousand with many inline units), and building
-50000 values takes about 0.3 s on a slow machine (tests/bench_limits.py). A setting that is not a whole number in range is a usage
-error (exit 2).
+what it would expand to. The node limit also bounds the work on a document that passes
+it: a spec needs a few hundred values (a few thousand with many inline units), and
+parsing 50000 values took about 0.6 s on a shared 2-core machine (tests/bench_limits.py).
+A setting that is not a whole number in range is a usage error (exit 2).
 """
 from __future__ import annotations
 

@@ -9,10 +9,10 @@ import os
 from dataclasses import dataclass
 from pathlib import Path
 
+from .limits import limits
 from .problems import InputError, Problems, did_you_mean
 from .schema import SPEC
 from .types import INVALID, describe
-from .limits import limits
 from .yamlnodes import Map, Mark, Node, Scalar, parse_yaml, too_big
 
 SPEC_SUFFIXES = (".yaml", ".yml")
