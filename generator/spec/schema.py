@@ -208,6 +208,34 @@ UNIT = Record({
     extra=MEASURED, extra_key=NAME,
     extra_help="other keys are measured primaries and must match a primary's name")
 
+# Python-Markdown takes time in the square of the number of '[' (4000 of them: 1.6 s) and
+# recurses once per level of list nesting (500 levels: RecursionError); real notes need
+# neither, so both are refused here, with the file and line, instead of failing at render.
+MAX_NOTE_BRACKETS = 1000
+MAX_NOTE_INDENT = 100
+
+
+def _notes(node, path, problems):
+    v = _NOTES_TEXT.check(node, path, problems)
+    if v is INVALID:
+        return v
+    if v.count("[") > MAX_NOTE_BRACKETS:
+        problems.error(node.mark, path, f"expected at most {MAX_NOTE_BRACKETS} '[' in the notes, "
+                       f"found {v.count('[')}", "split the notes, or link less")
+        return INVALID
+    for i, line in enumerate(v.splitlines(), 1):
+        wide = line.expandtabs(4)
+        indent = len(wide) - len(wide.lstrip())
+        if indent > MAX_NOTE_INDENT:
+            problems.error(node.mark, path, f"expected notes indented at most {MAX_NOTE_INDENT} spaces, found "
+                           f"{indent} on line {i} of the notes", "Markdown nests a level for every few spaces")
+            return INVALID
+    return v
+
+
+_NOTES_TEXT = Text("Markdown notes shown on the spec page")
+NOTES = Custom(_notes, {"type": "string"}, _NOTES_TEXT.description, "Markdown text")
+
 SPEC = Record({
     "$schema": Field(Text("address of the editor JSON Schema (ignored by the tool)")),
     "spec": Field(Integer("format version", allowed=(1,)), True, "the format version: spec: 1"),
@@ -225,7 +253,7 @@ SPEC = Record({
     "extends": Field(Text("id of a spec to inherit from", pattern=SLUG,
                           pattern_help="a spec id")),
     "owner": Field(Text("who owns the spec")),
-    "notes": Field(Text("Markdown notes shown on the spec page")),
+    "notes": Field(NOTES),
     "white": Field(WHITE, description=WHITE.description),
     "primaries": Field(PRIMARIES, description=PRIMARIES.description),
     "gamut": Field(ListOf(GAMUT_REQUIREMENT, "requirements on the gamut"),
