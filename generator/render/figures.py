@@ -53,11 +53,17 @@ class Layer:
     observer: str = "cie1931-2"
 
 
+LABEL_CHARS = 120
+
+
 def plain_text(text: str) -> str:
     """Spec text as matplotlib draws it literally: '$' would start mathtext (a stray
     '$\\frac{' raises while saving) and a leading '_' hides a legend entry. The SVG
     writer escapes <, > and &; this only stops matplotlib from interpreting the text."""
-    text = str(text).replace("$", r"\$")
+    text = str(text)
+    if len(text) > LABEL_CHARS:  # the page shows it whole; a legend entry stays readable
+        text = text[: LABEL_CHARS - 1] + "…"
+    text = text.replace("$", r"\$")
     return "\u200b" + text if text.startswith("_") else text
 
 

@@ -13,6 +13,7 @@ SLUG = r"[a-z0-9][a-z0-9-]*"
 NAME = r"[A-Za-z][A-Za-z0-9_-]*"
 RESERVED_PRIMARY_NAMES = ("tolerance",)
 UNIT_KEYS = ("serial", "lot", "supplier", "white", "notes")
+SHORT_TEXT = 500  # characters in a title, name, serial or lot: they go into tables and diagram legends
 
 
 def _unit_interval(desc):
@@ -199,9 +200,9 @@ MEASURED = chromaticity("a measured chromaticity, with luminance Y in cd/m² whe
                         extra={"Y": _LUM}, xyz=True)
 
 UNIT = Record({
-    "serial": Field(Text("the unit's serial number"), True),
-    "lot": Field(Text("the production lot")),
-    "supplier": Field(Text("who made and measured the unit")),
+    "serial": Field(Text("the unit's serial number", max_length=SHORT_TEXT), True),
+    "lot": Field(Text("the production lot", max_length=SHORT_TEXT)),
+    "supplier": Field(Text("who made and measured the unit", max_length=SHORT_TEXT)),
     "white": Field(MEASURED, description="measured white, {x, y, Y}"),
     "notes": Field(Text("free text about the unit")),
 }, "one measured unit; other keys are its measured primaries by name",
@@ -242,17 +243,17 @@ SPEC = Record({
     "id": Field(Text("unique slug, used for URLs", pattern=SLUG,
                      pattern_help="a slug of lower-case letters, digits and hyphens"), True,
                 "a unique slug such as orvane-27-studio"),
-    "title": Field(Text("title of the spec")),
-    "product": Field(Text("the product the spec is for")),
-    "family": Field(Text("product family, for grouping on the index")),
+    "title": Field(Text("title of the spec", max_length=SHORT_TEXT)),
+    "product": Field(Text("the product the spec is for", max_length=SHORT_TEXT)),
+    "family": Field(Text("product family, for grouping on the index", max_length=SHORT_TEXT)),
     "category": Field(Text("kind of product; signal, safety and lighting specs carry a caution",
                            choices=("display", "indicator", "lighting", "signal", "safety"))),
-    "revision": Field(Text("revision label")),
+    "revision": Field(Text("revision label", max_length=SHORT_TEXT)),
     "status": Field(Text("life-cycle status", choices=("draft", "released", "obsolete"))),
     "observer": Field(Text("standard observer", choices=("cie1931-2", "cie1964-10"))),
     "extends": Field(Text("id of a spec to inherit from", pattern=SLUG,
                           pattern_help="a spec id")),
-    "owner": Field(Text("who owns the spec")),
+    "owner": Field(Text("who owns the spec", max_length=SHORT_TEXT)),
     "notes": Field(NOTES),
     "white": Field(WHITE, description=WHITE.description),
     "primaries": Field(PRIMARIES, description=PRIMARIES.description),
