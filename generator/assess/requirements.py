@@ -121,7 +121,7 @@ def assess(spec: Spec, derived: Derived, rule: DecisionRule = SIMPLE) -> Assessm
 
     units = []
     targets = {p.name: p for p in spec.primaries}
-    for u, uf in zip(spec.units, derived.units):
+    for u, uf in zip(spec.units, derived.units, strict=True):
         urows: list[dict] = []
         if u.white is not None and spec.white is not None:
             urows += tolerance_rows("white", "white", u.serial, spec.white.tolerance, spec.white.xy,
