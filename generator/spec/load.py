@@ -57,8 +57,9 @@ def discover(specs: Path, problems: Problems) -> list[Path]:
     inside = [p for p in files if os.path.commonpath([root, os.path.realpath(p)]) == root]
     for p in files:
         if p not in inside:  # a link out of the specs folder: never read it
-            problems.error(Mark(display_path(p, specs), 1, 1), "", f"expected a spec file inside {display_path(specs)}, "
-                           "found a link to a file outside it", "copy the file into the specs folder instead")
+            problems.error(Mark(display_path(p, specs), 1, 1), "",
+                           f"expected a spec file inside {display_path(specs)}, found a link to a file outside it",
+                           "copy the file into the specs folder instead")
     files = inside
     if not files and not problems.errors:
         problems.error(Mark(display_path(specs), 1, 1), "", "expected spec files (*.yaml), found none",
