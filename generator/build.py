@@ -67,25 +67,29 @@ def check(specs_path: Path) -> Summary:
 
 
 def build(specs_path: Path, out: Path, *, clean: bool = False, incremental: bool = True,
-          history: bool = False) -> Summary:
-    """Build the site into ``out``. Unless ``incremental`` is off, reuse the diagrams and
-    pages of unchanged specs from the cache beside ``out``; ``clean`` empties it first.
-    With ``history``, each spec page lists the git commits that changed its file."""
+          history: bool = False, site_url: str | None = None, reload: bool = False) -> Summary:
+    """Build the site into ``out``. Unless ``incremental`` is off, reuse the diagrams, their
+    data files and the pages of unchanged specs from the cache beside ``out``; ``clean``
+    empties it first. With ``history``, each spec page lists the git commits that changed
+    its file. ``site_url`` (the site's public address) adds canonical links; ``reload``
+    adds the live-preview script that ``colourspec serve`` uses."""
     from .cache import Cache, cache_dir_for
-    from .publish import publish
+    from .publish import check_output, publish
     from .render.site import render_site
 
     t0 = time.perf_counter()
     evaluated, warnings = evaluate(specs_path)
     results = results_of(evaluated)
+    check_output(out, protect=(specs_path,))  # before anything (the cache beside it) is written
     histories = None
     if history:
         from .history import spec_histories
 
         histories = spec_histories(specs_path)
     cache = Cache(cache_dir_for(out), clean=clean) if incremental else None
-    site, n_pages, n_figures = render_site(evaluated, results, cache, histories)
-    publish(site, out)
+    site, n_pages, n_figures = render_site(evaluated, results, cache, histories,
+                                           site_url=site_url, reload=reload)
+    publish(site, out, protect=(specs_path,))
     if cache is not None:
         cache.prune()
     summary = Summary(evaluated, warnings, results, n_pages, n_figures, time.perf_counter() - t0)

@@ -164,6 +164,12 @@ def methods(spec) -> list[tuple[str, str]]:
         ("RGB to XYZ", "normalized primary matrix, SMPTE RP 177-1993, white Y = 1"),
         ("Dominant wavelength", "CIE 15:2004 §9.1, relative to the spec's white target"),
         ("Decision rule", "simple acceptance (ILAC-G8:09/2019 §4.2.1): limits inclusive"),
+        ("Tolerance regions", "drawn to scale in the diagrams: Δu'v' circles in CIE 1976 u'v', boxes, ellipses "
+                              "and regions in CIE 1931 xy, CCT × Duv quadrangles bounded by isotherms and lines "
+                              "of constant Duv"),
+        ("Diagram fill and swatches", "approximate sRGB previews (IEC 61966-2-1:1999 matrix and encoding, "
+                                      "out-of-gamut colours clipped); they show where colours lie, not how a "
+                                      "product looks, and take no part in any verdict"),
     ]
 
 

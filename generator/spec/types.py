@@ -48,6 +48,14 @@ def describe(node: Node) -> str:
     return repr(_short(node.text))
 
 
+def _near_miss(word: str, choices) -> bool:
+    """A very close spelling of a declared key (tolerence, tolerances), not merely a similar
+    name: 'orange' or 'warm-white' stay free names."""
+    import difflib
+
+    return bool(difflib.get_close_matches(word, list(choices), n=1, cutoff=0.85))
+
+
 class Type:
     description: str = ""
 
@@ -158,6 +166,10 @@ class Integer(Type):
         return s
 
 
+# C0 and C1 controls other than tab and line ends, and the XML non-characters U+FFFE, U+FFFF
+_CONTROL = re.compile("[\x00-\x08\x0b\x0c\x0e-\x1f\x7f-\x9f\ufffe\uffff]")
+
+
 @dataclass
 class Text(Type):
     """Any scalar, taken as its source text: `revision: 2` is "2", `status: no` is "no"."""
@@ -175,6 +187,11 @@ class Text(Type):
         v = node.text
         if len(v) > self.max_length:
             problems.error(node.mark, path, f"expected at most {self.max_length} characters, found {len(v)}")
+            return INVALID
+        bad = _CONTROL.search(v)
+        if bad:  # a quoted "\x07" or "\0" escape; such characters also make the SVG diagrams invalid XML
+            problems.error(node.mark, path, f"expected text without control characters, found U+{ord(bad.group()):04X} "
+                           f"at character {bad.start() + 1}", "remove the escape sequence that writes it")
             return INVALID
         if self.choices and v not in self.choices:
             hint = did_you_mean(v, self.choices)
@@ -232,7 +249,10 @@ class Record(Type):
                 if isinstance(child, Scalar) and child.is_null and not f.required:
                     continue
                 v = f.type.check(child, kpath, problems)
-            elif self.extra is not None and re.fullmatch(self.extra_key, key):
+            elif (self.extra is not None and re.fullmatch(self.extra_key, key)
+                  and not (isinstance(child, Map) and _near_miss(key, self.fields))):
+                # a free key (a primary's name) that is a near-miss of a declared key and
+                # holds a mapping is far likelier a typo ('tolerence') than a new name
                 v = self.extra.check(child, kpath, problems)
             else:
                 hint = did_you_mean(key, self.fields)
