@@ -2,6 +2,7 @@
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from functools import cached_property
 
 import numpy as np
 
@@ -9,7 +10,9 @@ from ..colour.convert import delta_uv_prime, xy_to_uv_prime
 from ..colour.region import distance_to_polygon_edges, ellipse_radius, in_polygon
 from ..derive import Derived
 from ..model import Spec, Tolerance
-from .rules import FAIL, SIMPLE, DecisionRule, combine, decide, margin
+from .rules import CODES, FAIL, DecisionRule, combine, decide, margin
+from .stats import lot_statistics
+from .units import unit_columns, unit_rows, unit_verdicts
 
 UNITS = {"delta_uv": "", "cct": "K", "duv": "", "box": "", "ellipse": "", "region": "",
          "luminance": "cd/m2", "coverage": "%", "area-ratio": "%"}
@@ -17,11 +20,23 @@ UNITS = {"delta_uv": "", "cct": "K", "duv": "", "box": "", "ellipse": "", "regio
 
 @dataclass
 class Assessment:
-    rows: list[dict]
+    design_rows: list[dict]
     verdict: str
     rule: DecisionRule
     units: list[dict] = field(default_factory=list)   # serial, lot, supplier, verdict, failing
     lots: list[dict] = field(default_factory=list)
+    columns: list = field(default_factory=list)        # units.Column per requirement on units
+    table: object = None                               # model.UnitTable
+    unit_codes: object = None                          # np.ndarray of verdict codes per unit
+    suppliers: list[dict] = field(default_factory=list)
+
+    @cached_property
+    def rows(self) -> list[dict]:
+        """Design rows, then every unit's rows (built from the columns on first use)."""
+        if self.table is None:
+            return list(self.design_rows)
+        return self.design_rows + list(unit_rows(self.columns, self.table,
+                                                 self.rule.uncertainty is not None))
 
 
 def _row(rid, subject, sample, quantity, value, limit, verdict, marg, label, **extra):
@@ -109,7 +124,9 @@ def luminance_row(spec: Spec, Y, sample, rule):
                         "white luminance", rule)]
 
 
-def assess(spec: Spec, derived: Derived, rule: DecisionRule = SIMPLE) -> Assessment:
+def assess(spec: Spec, derived: Derived, rule: DecisionRule | None = None) -> Assessment:
+    if rule is None:
+        rule = DecisionRule(spec.decision_rule, spec.uncertainty)
     rows: list[dict] = []
     if spec.white is not None:
         rows += tolerance_rows("white", "white", None, spec.white.tolerance, spec.white.xy, spec.white.xy,
@@ -119,31 +136,47 @@ def assess(spec: Spec, derived: Derived, rule: DecisionRule = SIMPLE) -> Assessm
         rows += tolerance_rows(f"primaries.{p.name}", p.name, None, p.tolerance, p.xy, p.xy, rule, design=True)
     rows += gamut_rows(spec, derived.gamut, None, rule) if spec.gamut else []
 
-    units = []
-    targets = {p.name: p for p in spec.primaries}
-    for u, uf in zip(spec.units, derived.units):
-        urows: list[dict] = []
-        if u.white is not None and spec.white is not None:
-            urows += tolerance_rows("white", "white", u.serial, spec.white.tolerance, spec.white.xy,
-                                    u.white.xy, rule, white=uf.white)
-            urows += luminance_row(spec, u.white.Y, u.serial, rule)
-        for name, m in u.primaries.items():
-            p = targets[name]
-            urows += tolerance_rows(f"primaries.{name}", name, u.serial, p.tolerance, p.xy, m.xy, rule)
-        if uf.gamut is not None:
-            urows += gamut_rows(spec, uf.gamut, u.serial, rule)
-        for r in urows:
-            r["lot"] = u.lot
-        verdict = combine(r["verdict"] for r in urows) if urows else "pass"
-        units.append({"serial": u.serial, "lot": u.lot, "supplier": u.supplier, "verdict": verdict,
-                      "rows": len(urows), "failing": [r["id"] for r in urows if r["verdict"] == FAIL]})
-        rows += urows
+    table = spec.table
+    cols = unit_columns(spec, table, derived.ref_hulls, rule) if table is not None and len(table) else []
+    n = len(table) if table is not None else 0
+    codes = unit_verdicts(cols, n)
+    units, lots, suppliers = summarise(cols, table, codes) if n else ([], [], [])
+    verdicts = [r["verdict"] for r in rows] + [CODES[k] for k in np.unique(codes)]
+    verdict = combine(verdicts) if verdicts else "pass"
+    return Assessment(rows, verdict, rule, units, lots, cols, table, codes, suppliers)
+
+
+def summarise(cols, table, codes):
+    """Unit entries, lots with statistics, and suppliers, from the columns."""
+    failing = [[] for _ in range(len(table))]
+    n_rows = np.zeros(len(table), int)
+    for c in cols:
+        n_rows += c.code >= 0
+        for i in np.flatnonzero(c.code == 2):
+            failing[i].append(c.id)
+    units = [{"serial": s, "lot": lot, "supplier": sup, "verdict": CODES[k], "rows": int(nr), "failing": f,
+              "source": src}
+             for s, lot, sup, k, nr, f, src in zip(table.serial, table.lot, table.supplier, codes.tolist(),
+                                                    n_rows.tolist(), failing, table.source)]
+    lot_arr = np.array(table.lot, dtype=object)
+    sup_arr = np.array(table.supplier, dtype=object)
     lots = []
-    for lot in sorted({u["lot"] for u in units if u["lot"]}):
-        members = [u for u in units if u["lot"] == lot]
-        lots.append({"lot": lot, "n": len(members),
-                     "n_fail": sum(u["verdict"] == FAIL for u in members),
-                     "suppliers": sorted({u["supplier"] for u in members if u["supplier"]}),
-                     "verdict": combine(u["verdict"] for u in members)})
-    verdict = combine(r["verdict"] for r in rows) if rows else "pass"
-    return Assessment(rows, verdict, rule, units, lots)
+    for lot in sorted({x for x in table.lot if x}):
+        members = np.flatnonzero(lot_arr == lot)
+        k = codes[members]
+        lots.append({"lot": lot, "n": int(members.size), "n_fail": int(np.sum(k == 2)),
+                     "suppliers": sorted({sup_arr[i] for i in members if sup_arr[i]}),
+                     "verdict": CODES[int(k.max())], "n_pass": int(np.sum(k == 0)),
+                     "n_indeterminate": int(np.sum(k == 1)),
+                     "fail_percent": 100.0 * float(np.mean(k == 2)),
+                     "statistics": lot_statistics(cols, table, members)})
+    suppliers = []
+    for sup in sorted({x for x in table.supplier if x}):
+        members = np.flatnonzero(sup_arr == sup)
+        k = codes[members]
+        suppliers.append({"supplier": sup, "n": int(members.size), "n_fail": int(np.sum(k == 2)),
+                          "n_indeterminate": int(np.sum(k == 1)), "n_pass": int(np.sum(k == 0)),
+                          "lots": sorted({table.lot[i] for i in members if table.lot[i]}),
+                          "verdict": CODES[int(k.max())]})
+    return units, lots, suppliers
+

@@ -155,9 +155,10 @@ def load_specs(specs: Path):
         if v is not INVALID:
             values[src.file] = (src, node, v)
     result = []
+    root = specs if specs.is_dir() else specs.parent
     by_id = {v["id"]: v for (_, _, v) in values.values()}
     for file, (_, node, v) in values.items():
-        spec = resolve_spec(file, node, v, by_id, problems)
+        spec = resolve_spec(file, node, v, by_id, problems, root)
         if spec is not None:
             result.append(spec)
     if problems.errors:

@@ -13,6 +13,7 @@ from ..colour.wavelength import outside_locus_distance
 from ..data import ILLUMINANTS, REFERENCE_SPACES
 from ..model import GamutRequirement, Measurement, Primary, ReferenceGamut, Spec, Tolerance, Unit, White
 from .problems import Problems, did_you_mean
+from .measured import measured_table, uncertainty_of, uniformity_of
 from .schema import RESERVED_PRIMARY_NAMES, UNIT_KEYS
 from .yamlnodes import Map, Mark, Node, Seq
 
@@ -140,7 +141,7 @@ def _reference_from_spec(other: dict) -> ReferenceGamut | None:
                           f"spec {other['id']}")
 
 
-def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems) -> Spec | None:
+def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems, root=None) -> Spec | None:
     r = _Resolver(file, node, problems)
     observer = v.get("observer", "cie1931-2")
 
@@ -191,6 +192,7 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems)
                                       g.get("note", "")))
 
     units = []
+    unit_lines = []
     names = [p.name for p in primaries]
     seen_serials: dict[str, int] = {}
     for i, u in enumerate(v.get("units", [])):
@@ -214,17 +216,25 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems)
             if mm is not None:
                 prim_m[key] = mm
         units.append(Unit(serial, u.get("lot", ""), u.get("supplier", ""), white_m, prim_m, u.get("notes", "")))
+        unit_lines.append(mark_at(node, ["units", i]).line)
+
+    uniformity = uniformity_of(v)
+    table, files = measured_table(r, v, node, root, units, unit_lines, names, observer,
+                                  uniformity.centre if uniformity else "C",
+                                  (LOCUS_TOLERANCE, MEASURED_LOCUS_LIMIT))
 
     if not r.ok:
         return None
-    warnings = [p for p in problems.warnings if p.file == file]
+    warnings = [p for p in problems.warnings if p.file == file or p.file in files]
     return Spec(
         id=v["id"], file=file, title=v.get("title", v["id"]), product=v.get("product", ""),
         family=v.get("family", ""), category=v.get("category", "display"),
         revision=v.get("revision", ""), status=v.get("status", "draft"), observer=observer,
         extends=v.get("extends", ""), owner=v.get("owner", ""), notes=v.get("notes", ""),
         white=white, primaries=primaries, gamut=gamut, units=units, references=references,
-        inherited=dict(node.inherited), warnings=warnings)
+        inherited=dict(node.inherited), warnings=warnings, table=table,
+        decision_rule=v.get("decision_rule", "simple"), uncertainty=uncertainty_of(v), uniformity=uniformity,
+        measurements=files)
 
 
 def _check_gamut_shape(r: _Resolver, names: list[str], primaries: list[Primary], white: White | None) -> None:

@@ -1,0 +1,104 @@
+"""Measurement CSV files (RFC 4180 quoting, UTF-8).
+
+The first non-comment line names the columns; lines starting with '#' are comments.
+
+| column | required | meaning |
+|---|---|---|
+| serial | yes | the unit's serial number |
+| channel | yes | `white` or the name of one of the spec's primaries |
+| lot, supplier | no | the unit's production lot and who made it |
+| point | no | measurement point on the unit (for uniformity, e.g. 1-9 of a 3 x 3 grid) |
+| x, y, Y | one of the two | CIE 1931 chromaticity and luminance Y in cd/m² (Y optional) |
+| X, Y, Z | | CIE tristimulus values, Y in cd/m² |
+
+Column names are matched without regard to case, except x/X, y/Y and z/Z.
+"""
+from __future__ import annotations
+
+import csv
+import io
+
+import numpy as np
+
+from .records import ReadError, Records, to_float, xyz_to_xyY
+
+TEXT_COLUMNS = ("serial", "lot", "supplier", "channel", "point")
+NUMBER_COLUMNS = ("x", "y", "Y", "X", "Z")
+
+
+def _header(cells: list[str], file: str, line: int) -> dict[str, int]:
+    cols: dict[str, int] = {}
+    for i, c in enumerate(cells):
+        name = c.strip()
+        key = name if name in NUMBER_COLUMNS else name.lower()
+        if key not in TEXT_COLUMNS and key not in NUMBER_COLUMNS:
+            raise ReadError(file, line, i + 1, name or f"column {i + 1}",
+                            f"expected a column name ({', '.join(TEXT_COLUMNS + NUMBER_COLUMNS)}), "
+                            f"found {name!r}", "see the CSV columns in docs/spec-keys.md")
+        if key in cols:
+            raise ReadError(file, line, i + 1, name, "expected each column once, found it again")
+        cols[key] = i
+    for need in ("serial", "channel"):
+        if need not in cols:
+            raise ReadError(file, line, 1, need, f"expected a '{need}' column, found none",
+                            "the header needs serial, channel and x, y (Y) or X, Y, Z")
+    has_xy, has_xz = "x" in cols or "y" in cols, "X" in cols or "Z" in cols
+    if has_xy and has_xz:
+        raise ReadError(file, line, 1, "x", "expected x, y, Y or X, Y, Z, found both")
+    if has_xz and not all(k in cols for k in ("X", "Y", "Z")):
+        raise ReadError(file, line, 1, "X", "expected all of X, Y, Z")
+    if not has_xz and not ("x" in cols and "y" in cols):
+        raise ReadError(file, line, 1, "x", "expected columns x and y (and Y), or X, Y and Z, found neither")
+    return cols
+
+
+def parse_csv(text: str, file: str) -> Records:
+    """Read one measurement CSV; raise ReadError naming file, line and column."""
+    cols = None
+    rows: list[list[str]] = []
+    lines: list[int] = []
+    reader = csv.reader(io.StringIO(text, newline=""), strict=True)
+    try:
+        for cells in reader:
+            line = reader.line_num
+            if not cells or (len(cells) == 1 and not cells[0].strip()) or cells[0].lstrip().startswith("#"):
+                continue
+            if cols is None:
+                cols = _header(cells, file, line)
+                width = len(cells)
+                continue
+            if len(cells) != width:
+                raise ReadError(file, line, 1, "row", f"expected {width} cells as in the header, found {len(cells)}")
+            rows.append(cells)
+            lines.append(line)
+    except csv.Error as e:
+        raise ReadError(file, reader.line_num, 1, "row", f"expected well-formed CSV, found {e}",
+                        "a quoted cell must end with a closing quote") from None
+    if cols is None:
+        raise ReadError(file, 1, 1, "header", "expected a header line naming the columns, found none")
+    line_arr = np.array(lines, dtype=np.int64)
+
+    def text(name, default=""):
+        i = cols.get(name)
+        if i is None:
+            return [default] * len(rows)
+        return [r[i].strip() for r in rows]
+
+    def num(name):
+        i = cols[name]
+        return to_float([r[i].strip() for r in rows], file, line_arr, lambda _k: i + 1, name)
+
+    r = Records(file, text("serial"), text("lot"), text("supplier"), text("channel"), text("point"))
+    for i, s in enumerate(r.serial):
+        if not s:
+            raise ReadError(file, lines[i], cols["serial"] + 1, "serial", "expected a serial, found an empty cell")
+    for i, c in enumerate(r.channel):
+        if not c:
+            raise ReadError(file, lines[i], cols["channel"] + 1, "channel", "expected a channel, found an empty cell")
+    if "X" in cols:
+        r.x, r.y, r.Y = xyz_to_xyY(num("X"), num("Y"), num("Z"))
+    else:
+        r.x, r.y = num("x"), num("y")
+        r.Y = num("Y") if "Y" in cols else np.full(len(rows), np.nan)
+    r.line = line_arr
+    return r
