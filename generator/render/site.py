@@ -7,8 +7,11 @@ import numpy as np
 
 from ..publish import SiteFiles
 from . import figures as F
-from .pages import (CAUTION, CAUTION_CATEGORIES, environment, fmt, methods, render_markdown, row_view,
-                    templates_dir)
+from .lots import _units_view, lot_pages, page_names
+from .pages import (CAUTION, CAUTION_CATEGORIES, SYMBOL, decision_text, environment, fmt, methods,
+                    render_markdown, row_view, templates_dir)
+
+MAX_UNIT_ROWS = 3000   # unit rows listed on a spec page; results.json has all
 from .results import dumps
 
 
@@ -27,9 +30,38 @@ def _tolerance_shapes(tol, centre_xy, label):
     return shapes
 
 
-def layer_for(e, which: str) -> F.Layer:
+MAX_PLOTTED = 1500   # units drawn per diagram: every unit that does not pass, then passing ones evenly
+
+
+def plotted_units(e, members=None) -> np.ndarray:
+    """Indices of the units a diagram shows (all of them up to MAX_PLOTTED)."""
+    a = e.assessment
+    n = len(a.table) if a.table is not None else 0
+    idx = np.arange(n) if members is None else np.asarray(members)
+    if idx.size <= MAX_PLOTTED:
+        return idx
+    codes = a.unit_codes[idx]
+    bad, good = idx[codes > 0], idx[codes == 0]
+    room = max(0, MAX_PLOTTED - bad.size)
+    keep = good[np.linspace(0, good.size - 1, room).astype(int)] if room and good.size else good[:0]
+    return np.sort(np.concatenate([bad[:MAX_PLOTTED], keep]))
+
+
+def _unit_points(e, channels, idx):
+    a, t = e.assessment, e.assessment.table
+    out = []
+    for i in idx.tolist():
+        v = ("pass", "indeterminate", "fail")[a.unit_codes[i]]
+        for c in channels:
+            m = t.channels[c][i]
+            if np.isfinite(m[0]):
+                out.append((t.serial[i], (float(m[0]), float(m[1])), v))
+    return out
+
+
+def layer_for(e, which: str, members=None, title_suffix: str = "") -> F.Layer:
     spec = e.spec
-    unit_verdicts = {u["serial"]: u["verdict"] for u in e.assessment.units}
+    idx = plotted_units(e, members)
     refs = []
     shown = []
     for g in spec.gamut:
@@ -39,23 +71,19 @@ def layer_for(e, which: str) -> F.Layer:
         refs.append((spec.references[key].title, e.derived.ref_hulls[key][0]))
     if which == "white":
         tol = _tolerance_shapes(spec.white.tolerance, spec.white.xy, "white")
-        units = [(u.serial, u.white.xy, unit_verdicts[u.serial]) for u in spec.units if u.white is not None]
-        return F.Layer("White point, CIE 1976 u'v'", None, [], spec.white.xy, [], tol, units, spec.observer)
+        units = _unit_points(e, ["white"], idx)
+        return F.Layer("White point, CIE 1976 u'v'" + title_suffix, None, [], spec.white.xy, [], tol, units,
+                       spec.observer)
     tol = []
     for p in spec.primaries:
         tol += _tolerance_shapes(p.tolerance, p.xy, p.name)
     if spec.white is not None:
         tol += [t for t in _tolerance_shapes(spec.white.tolerance, spec.white.xy, "white")
                 if "CCT" not in t[0]]
-    units = []
-    for u in spec.units:
-        for name, m in u.primaries.items():
-            units.append((u.serial, m.xy, unit_verdicts[u.serial]))
-        if u.white is not None:
-            units.append((u.serial, u.white.xy, unit_verdicts[u.serial]))
+    units = _unit_points(e, [p.name for p in spec.primaries] + ["white"], idx)
     gamut = e.derived.gamut.hull_xy if e.derived.gamut is not None else None
     title = "CIE 1931 xy chromaticity diagram" if which == "xy" else "CIE 1976 u'v' chromaticity diagram"
-    return F.Layer(title, gamut, [(p.name, p.xy) for p in spec.primaries],
+    return F.Layer(title + title_suffix, gamut, [(p.name, p.xy) for p in spec.primaries],
                    spec.white.xy if spec.white else None, refs, tol, units, spec.observer)
 
 
@@ -82,13 +110,19 @@ def _alt(e, diag) -> str:
     refs = ", ".join(spec.references[g.reference].title for g in spec.gamut) or "none"
     d = "CIE 1931 xy" if diag == "xy" else "CIE 1976 u'v'"
     return (f"{d} diagram with the spectral locus and Planckian locus, the spec gamut of {names}, "
-            f"reference gamuts: {refs}; {len(spec.units)} measured units marked by verdict")
+            f"reference gamuts: {refs}; {n_units(e)} measured units marked by verdict")
+
+
+def n_units(e) -> int:
+    return len(e.assessment.table) if e.assessment.table is not None else 0
 
 
 def spec_context(e, figs) -> dict:
     spec, d, a = e.spec, e.derived, e.assessment
     rows = [row_view(r) for r in a.rows]
     design = [r for r in rows if r["sample"] is None]
+    unit_rows = [r for r in rows if r["sample"] is not None]
+    lot_names, sup_names = page_names(a)
     failing = [r for r in rows if r["verdict"] != "pass"]
     white = None
     if d.white:
@@ -120,10 +154,13 @@ def spec_context(e, figs) -> dict:
         "failing": failing[:12], "failing_more": max(0, len(failing) - 12),
         "figures": [{k: f[k] for k in ("file", "title", "alt")} for f in figs],
         "design_rows": design,
-        "units": [dict(u, failing=", ".join(u["failing"]), symbol={"pass": "✓", "fail": "✗",
-                  "indeterminate": "?"}[u["verdict"]]) for u in a.units],
-        "unit_rows": [r for r in rows if r["sample"] is not None],
-        "lots": a.lots,
+        "units": _units_view(a, np.arange(n_units(e))) if n_units(e) else [],
+        "n_units": n_units(e),
+        "unit_rows": unit_rows[:MAX_UNIT_ROWS], "n_unit_rows": len(unit_rows),
+        "lots": [dict(lot, page=lot_names[lot["lot"]], symbol=SYMBOL[lot["verdict"]]) for lot in a.lots],
+        "suppliers": [dict(s, page=sup_names[s["supplier"]], symbol=SYMBOL[s["verdict"]]) for s in a.suppliers],
+        "measurements": spec.measurements,
+        "decision": decision_text(spec),
         "white": white, "primaries": prims, "gamut": gamut, "npm": npm, "npm_inverse": npm_inv,
         "notes_html": render_markdown(spec.notes) if spec.notes else "",
         "methods": methods(spec),
@@ -148,7 +185,7 @@ def index_context(evaluated) -> dict:
                       "key_gamut": key,
                       "cct": fmt(d.white["cct_K"], 0) + " K" if d.white else "—",
                       "duv": fmt(d.white["duv"], 4) if d.white else "—",
-                      "n_units": len(s.units),
+                      "n_units": n_units(e),
                       "n_fail": sum(u["verdict"] == "fail" for u in a.units)})
     counts = {v: sum(i["verdict"] == v for i in items) for v in ("pass", "fail", "indeterminate")}
     return {"items": items, "counts": counts, "root": ""}
@@ -164,6 +201,8 @@ def render_site(evaluated, results: dict):
         for f in figs:
             site.add(f"{e.spec.id}/{f['file']}", f["svg"])
         site.add(f"{e.spec.id}/index.html", env.get_template("spec.html").render(**spec_context(e, figs)))
+        for path, content in lot_pages(e, env, decision_text(e.spec)):
+            site.add(f"{e.spec.id}/{path}", content)
         entry = next(s for s in results["specs"] if s["id"] == e.spec.id)
         site.add(f"{e.spec.id}/results.json", json.dumps(entry, indent=2, ensure_ascii=False) + "\n")
     site.add("index.html", env.get_template("index.html").render(**index_context(evaluated)))
