@@ -58,9 +58,8 @@ def _histograms(e, members, prefix: str) -> list[dict]:
             ref = hi if hi is not None else lo
             guard = float(np.max(rule.guard_band(c.quantity, ref))) if c.quantity != "box" else \
                 rule.guard_band("xy")
-            fig, _ = F.histogram(values[idx], lo, hi, guard, f"{c.label}{suffix} — {c.subject}",
-                                 f"{c.quantity}{suffix}" + (f" ({c.U and 'U = ' + fmt(float(np.max(c.U)), 5)})"
-                                                            if np.any(np.asarray(c.U) > 0) else ""))
+            xlabel = f"{c.quantity}{suffix}" + (f" (guard band w = U = {guard:.4g} at the limit)" if guard else "")
+            fig, _ = F.histogram(values[idx], lo, hi, guard, f"{c.label}{suffix} — {c.subject}", xlabel)
             name = f"{prefix}-{c.id}{suffix}.svg"
             out.append({"file": name, "svg": F.save_svg(fig), "title": f"{c.id}{suffix}",
                         "alt": f"Histogram of {c.label}{suffix} for {c.subject} over {idx.size} units, with the "
