@@ -6,7 +6,7 @@ from pathlib import Path
 
 import numpy as np
 
-from ..colour.wavelength import outside_locus_distance
+from ..colour.wavelength import locus_boundary, outside_locus_distance
 from ..measure.files import PathRefused, locate, read
 from ..measure.records import ReadError, Records
 from ..measure.units import group
@@ -48,10 +48,26 @@ def inline_records(file: str, units: list[Unit], lines: list[int]) -> Records:
     return r
 
 
+def locus_distance(xy, observer: str):
+    """``outside_locus_distance`` for many points: points inside a polygon on a subset of the
+    (convex) locus hull's corners are inside the hull, so only the rest are measured exactly."""
+    hull, _, _ = locus_boundary(observer)
+    inner = hull[np.unique(np.linspace(0, len(hull) - 1, 24).astype(int))]
+    a, b = inner, np.roll(inner, -1, axis=0)
+    cross = ((b - a)[None, :, 0] * (xy[:, None, 1] - a[None, :, 1])
+             - (b - a)[None, :, 1] * (xy[:, None, 0] - a[None, :, 0]))
+    sure = np.all(cross > 1e-12, axis=1)
+    d = np.zeros(len(xy))
+    rest = np.flatnonzero(~sure)
+    if rest.size:
+        d[rest] = outside_locus_distance(xy[rest], observer)
+    return d
+
+
 def physical_check(observer: str, locus_tolerance: float, measured_limit: float):
     def check(x, y):
         s = x + y
-        d = outside_locus_distance(np.stack([x, y], axis=-1), observer) if len(x) else np.zeros(0)
+        d = locus_distance(np.stack([x, y], axis=-1), observer) if len(x) else np.zeros(0)
         err = (s > 1 + 1e-12) | (d > measured_limit) | (x < 0) | (y < 0)
         warn = d > locus_tolerance
 
