@@ -52,7 +52,7 @@ def fmt(v, digits: int = 4) -> str:
 
 
 _DIGITS = {"cct": 0, "duv": 4, "delta_uv": 4, "box": 4, "ellipse": 2, "region": 4,
-           "luminance": 1, "coverage": 1, "area-ratio": 1}
+           "luminance": 1, "coverage": 1, "area-ratio": 1, "luminance_uniformity": 1, "colour_uniformity": 4}
 
 
 def limit_text(row) -> str:
