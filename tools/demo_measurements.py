@@ -98,13 +98,13 @@ def write_cgats_xyy(path, units, lot, supplier, serial0):
 def main() -> None:
     rng = np.random.default_rng(2611)
     OUT.mkdir(parents=True, exist_ok=True)
-    a = _units(rng, 80, (0, 0), 0.0005, 0.0011, 292, 6)
+    a = _units(rng, 40, (0, 0), 0.0005, 0.0011, 292, 6)
     write_csv(OUT / "tessaly-lot-TPW-2611A.csv", a, "TPW-2611A", "Tessaly Panel Works", 1, rng)
-    b = _units(rng, 60, (-0.0045, 0.0050), 0.0012, 0.0016, 268, 9)
+    b = _units(rng, 30, (-0.0045, 0.0050), 0.0012, 0.0016, 268, 9)
     write_cgats_xyz(OUT / "umbrin-lot-UO-0611.cgats", b, "UO-0611", "Umbrin Optoelectronics", 4101)
-    c = _units(rng, 50, (0, 0), 0.0005, 0.0011, 290, 6)
+    c = _units(rng, 30, (0, 0), 0.0005, 0.0011, 290, 6)
     for k, r in enumerate((0.0040, 0.0046, 0.0052, 0.0058)):   # inside the limit ± U = 0.005 ± 0.0015
-        c[5 + 9 * k]["white"] = _off_locus(r, 1 if k % 2 else -1)
+        c[3 + 7 * k]["white"] = _off_locus(r, 1 if k % 2 else -1)
     write_cgats_xyy(OUT / "tessaly-lot-TPW-2612B.txt", c, "TPW-2612B", "Tessaly Panel Works", 201)
 
 

@@ -105,6 +105,17 @@ def parse_tables(text: str, file: str) -> list[Table]:
     nfields_line = nsets_line = 0
     lines = text.splitlines()
     for lineno, raw in enumerate(lines, 1):
+        if state == "data" and '"' not in raw and "#" not in raw:     # the common case, kept fast
+            vals = raw.split()
+            if not vals:
+                continue
+            if vals[0] != "END_DATA":
+                if len(vals) != len(t.fields):
+                    raise ReadError(file, lineno, 1, "set",
+                                    f"expected {len(t.fields)} values (NUMBER_OF_FIELDS), found {len(vals)}")
+                t.sets.append(vals)
+                t.set_lines.append(lineno)
+                continue
         toks = tokens(raw, file, lineno)
         if not toks:
             continue

@@ -52,11 +52,8 @@ def _header(cells: list[str], file: str, line: int) -> dict[str, int]:
     return cols
 
 
-def parse_csv(text: str, file: str) -> Records:
-    """Read one measurement CSV; raise ReadError naming file, line and column."""
-    cols = None
-    rows: list[list[str]] = []
-    lines: list[int] = []
+def _read_quoted(text: str, file: str):
+    cols, width, rows, lines = None, 0, [], []
     reader = csv.reader(io.StringIO(text, newline=""), strict=True)
     try:
         for cells in reader:
@@ -64,8 +61,7 @@ def parse_csv(text: str, file: str) -> Records:
             if not cells or (len(cells) == 1 and not cells[0].strip()) or cells[0].lstrip().startswith("#"):
                 continue
             if cols is None:
-                cols = _header(cells, file, line)
-                width = len(cells)
+                cols, width = _header(cells, file, line), len(cells)
                 continue
             if len(cells) != width:
                 raise ReadError(file, line, 1, "row", f"expected {width} cells as in the header, found {len(cells)}")
@@ -74,6 +70,26 @@ def parse_csv(text: str, file: str) -> Records:
     except csv.Error as e:
         raise ReadError(file, reader.line_num, 1, "row", f"expected well-formed CSV, found {e}",
                         "a quoted cell must end with a closing quote") from None
+    return cols, width, rows, lines
+
+
+def parse_csv(text: str, file: str) -> Records:
+    """Read one measurement CSV; raise ReadError naming file, line and column."""
+    if '"' in text:
+        cols, width, rows, lines = _read_quoted(text, file)
+    else:   # no quoting anywhere: plain splitting gives the same cells, much faster
+        cols, width, rows, lines = None, 0, [], []
+        for line, raw in enumerate(text.splitlines(), 1):
+            if not raw.strip() or raw.lstrip().startswith("#"):
+                continue
+            cells = raw.split(",")
+            if cols is None:
+                cols, width = _header(cells, file, line), len(cells)
+                continue
+            if len(cells) != width:
+                raise ReadError(file, line, 1, "row", f"expected {width} cells as in the header, found {len(cells)}")
+            rows.append(cells)
+            lines.append(line)
     if cols is None:
         raise ReadError(file, 1, 1, "header", "expected a header line naming the columns, found none")
     line_arr = np.array(lines, dtype=np.int64)
