@@ -120,3 +120,15 @@ def test_measurements_named_by_a_parent_spec_are_relative_to_the_parent(spec_dir
     spec_dir("child/child.yaml", "spec: 1\nid: lot-child\nextends: lot-check\n")
     (_, child), _ = evaluate(spec_dir.dir)
     assert child.spec.id == "lot-child" and len(child.assessment.units) == 4
+
+
+def test_the_fast_locus_distance_equals_the_exact_one():
+    import numpy as np
+
+    from generator.colour.wavelength import outside_locus_distance
+    from generator.spec.measured import locus_distance
+
+    rng = np.random.default_rng(5)
+    p = np.vstack([rng.uniform(-0.1, 0.9, (5000, 2)), rng.normal((0.3127, 0.329), 0.01, (5000, 2))])
+    for observer in ("cie1931-2", "cie1964-10"):
+        assert np.array_equal(locus_distance(p, observer), outside_locus_distance(p, observer))

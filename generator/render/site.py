@@ -203,6 +203,7 @@ def render_site(evaluated, results: dict):
         site.add(f"{e.spec.id}/index.html", env.get_template("spec.html").render(**spec_context(e, figs)))
         for path, content in lot_pages(e, env, decision_text(e.spec)):
             site.add(f"{e.spec.id}/{path}", content)
+            n_fig += path.endswith(".svg")
         entry = next(s for s in results["specs"] if s["id"] == e.spec.id)
         site.add(f"{e.spec.id}/results.json", json.dumps(entry, indent=2, ensure_ascii=False) + "\n")
     site.add("index.html", env.get_template("index.html").render(**index_context(evaluated)))

@@ -48,17 +48,27 @@ def inline_records(file: str, units: list[Unit], lines: list[int]) -> Records:
     return r
 
 
+def _surely_inside(xy, poly):
+    """True where a point is strictly inside the convex counter-clockwise polygon ``poly``."""
+    a, b = poly, np.roll(poly, -1, axis=0)
+    out = np.zeros(len(xy), bool)
+    for s in range(0, len(xy), 8192):
+        p = xy[s:s + 8192]
+        cross = ((b - a)[None, :, 0] * (p[:, None, 1] - a[None, :, 1])
+                 - (b - a)[None, :, 1] * (p[:, None, 0] - a[None, :, 0]))
+        out[s:s + 8192] = np.all(cross > 1e-12, axis=1)
+    return out
+
+
 def locus_distance(xy, observer: str):
-    """``outside_locus_distance`` for many points: points inside a polygon on a subset of the
-    (convex) locus hull's corners are inside the hull, so only the rest are measured exactly."""
+    """``outside_locus_distance`` for many points. The locus hull is convex, so a point
+    strictly inside a polygon on some of its corners, or strictly inside the hull itself,
+    is inside; only the rest are measured exactly."""
     hull, _, _ = locus_boundary(observer)
     inner = hull[np.unique(np.linspace(0, len(hull) - 1, 24).astype(int))]
-    a, b = inner, np.roll(inner, -1, axis=0)
-    cross = ((b - a)[None, :, 0] * (xy[:, None, 1] - a[None, :, 1])
-             - (b - a)[None, :, 1] * (xy[:, None, 0] - a[None, :, 0]))
-    sure = np.all(cross > 1e-12, axis=1)
     d = np.zeros(len(xy))
-    rest = np.flatnonzero(~sure)
+    rest = np.flatnonzero(~_surely_inside(xy, inner))
+    rest = rest[~_surely_inside(xy[rest], hull)]
     if rest.size:
         d[rest] = outside_locus_distance(xy[rest], observer)
     return d
