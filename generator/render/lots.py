@@ -56,8 +56,9 @@ def _histograms(e, members, prefix: str) -> list[dict]:
             continue
         for suffix, values, lo, hi, _ in _series(c):
             ref = hi if hi is not None else lo
-            guard = float(np.max(rule.guard_band(c.quantity, ref))) if c.quantity != "box" else \
-                rule.guard_band("xy")
+            # the column's own U; a relative U is taken at the limit
+            guard = 0.0 if rule.name != "guard-banded" else (
+                float(c.U) if np.ndim(c.U) == 0 else float(rule.U(c.quantity, ref)))
             xlabel = f"{c.quantity}{suffix}" + (f" (guard band w = U = {guard:.4g} at the limit)" if guard else "")
             fig, _ = F.histogram(values[idx], lo, hi, guard, f"{c.label}{suffix} — {c.subject}", xlabel)
             name = f"{prefix}-{c.id}{suffix}.svg"
@@ -84,7 +85,8 @@ def _diagrams(e, members, prefix: str, what: str) -> list[dict]:
 
 
 def _units_view(a, members):
-    shown = members[np.argsort(-a.unit_codes[members], kind="stable")][:MAX_TABLE_UNITS]
+    shown = members if members.size <= MAX_TABLE_UNITS else \
+        members[np.argsort(-a.unit_codes[members], kind="stable")][:MAX_TABLE_UNITS]
     return [dict(a.units[i], failing=", ".join(a.units[i]["failing"]), symbol=SYMBOL[a.units[i]["verdict"]])
             for i in shown.tolist()]
 
