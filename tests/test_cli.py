@@ -96,7 +96,7 @@ def test_build_summary_names_pages_diagrams_and_failing_specs(tmp_path):
     r = run("build", str(DEMO_SPECS), "-o", str(tmp_path / "out"))
     assert r.returncode == 0, r.stderr
     line = r.stdout.strip().splitlines()[-1]
-    assert line.startswith("Built 6 spec pages and 18 diagrams into ")
+    assert line.startswith("Built 7 spec pages and 52 diagrams into ")
     assert "corvinta-atlas-27-studio" in line
 
 

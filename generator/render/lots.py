@@ -68,16 +68,20 @@ def _histograms(e, members, prefix: str) -> list[dict]:
     return out
 
 
-def _diagrams(e, members, prefix: str, what: str) -> list[dict]:
+def _diagrams(e, members, prefix: str, what: str, full: bool = True) -> list[dict]:
+    """A lot's diagrams; none for lots smaller than HISTOGRAM_MIN_UNITS, whose units the
+    spec page's diagrams already show legibly."""
     from .site import layer_for
 
     out = []
     spec = e.spec
+    if members.size < HISTOGRAM_MIN_UNITS:
+        return out
     if spec.white is not None:
         fig, _ = F.white_closeup(layer_for(e, "white", members, f" — {what}"))
         out.append({"file": f"{prefix}-white.svg", "svg": F.save_svg(fig), "title": f"White point, {what}",
                     "alt": f"White target with the tolerance and the white of each unit of {what}"})
-    if spec.primaries:
+    if spec.primaries and (full or spec.white is None):
         fig, _ = F.chromaticity_diagram(layer_for(e, "uv", members, f" — {what}"), "uv")
         out.append({"file": f"{prefix}-uv.svg", "svg": F.save_svg(fig), "title": f"CIE 1976 u'v', {what}",
                     "alt": f"Spec gamut and tolerances with the primaries and white of each unit of {what}"})
@@ -116,7 +120,7 @@ def lot_pages(e, env, decision: str):
     for sup in a.suppliers:
         members = np.flatnonzero(sup_arr == sup["supplier"])
         name = sup_names[sup["supplier"]]
-        figs = _diagrams(e, members, name, sup["supplier"])
+        figs = _diagrams(e, members, name, sup["supplier"], full=False)
         lots = [dict(lot, page=lot_names[lot["lot"]], symbol=SYMBOL[lot["verdict"]])
                 for lot in a.lots if lot["lot"] in sup["lots"]]
         ctx = {"spec": e.spec, "what": sup["supplier"], "kind": "supplier", "entry": sup, "decision": decision,
