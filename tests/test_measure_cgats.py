@@ -103,6 +103,14 @@ def test_malformed_files_name_line_and_field(text, line, field, words):
 
 def test_a_second_table_keeps_its_own_declarations():
     # keywords declared in the first table do not carry over into the second
-    text = GOOD.replace('KEYWORD "CHANNEL"\nKEYWORD "LOT"\n', 'KEYWORD "CHANNEL"\n')
-    e = _error(text)
-    assert (e.line, e.field) == (20, "LOT")
+    text = GOOD.replace('LOT "L 7"\nKEYWORD "CHANNEL"\nCHANNEL "white"',
+                        'LOT "L 7"\nKEYWORD "BATCH_NOTE"\nBATCH_NOTE "x"\nCHANNEL "white"', 1)
+    assert len(parse_tables(text, "m.txt")) == 2
+    e = _error(text.replace('LOT "L 7"\nNUMBER_OF_FIELDS 5', 'BATCH_NOTE "y"\nNUMBER_OF_FIELDS 5'))
+    assert e.field == "BATCH_NOTE" and "declared keyword" in e.message
+
+
+def test_colourspec_names_need_no_declaration():
+    text = GOOD.replace('KEYWORD "LOT"\n', "").replace('KEYWORD "CHANNEL"\n', "")
+    first, second = parse_cgats(text, "m.txt")
+    assert first.lot == ["L 7", "L 7"] and second.channel == ["red"]

@@ -11,7 +11,8 @@ quote inside a string stands for one quote.
 
 For colourspec, a table's rows are units: ``SAMPLE_ID`` (or ``SERIAL``) is the serial,
 ``XYZ_X XYZ_Y XYZ_Z`` or ``XYY_X XYY_Y [XYY_CAPY]`` the colour; ``LOT``, ``SUPPLIER``,
-``CHANNEL`` and ``POINT`` may be fields, or header keywords that hold for the whole table.
+``CHANNEL`` and ``POINT`` may be fields, or header keywords that hold for the whole table
+(declaring them with KEYWORD is allowed, not required).
 """
 from __future__ import annotations
 
@@ -33,7 +34,8 @@ STANDARD_FIELDS = {
     "SAMPLE_ID", "SAMPLE_NAME", "STRING", "XYZ_X", "XYZ_Y", "XYZ_Z", "XYY_X", "XYY_Y", "XYY_CAPY",
     "LAB_L", "LAB_A", "LAB_B", "LAB_C", "LAB_H", "LAB_DE", "RGB_R", "RGB_G", "RGB_B",
 }
-# Table-wide values colourspec reads from the header (declared with KEYWORD like any other).
+# The names colourspec reads, as fields or as table-wide header keywords; being documented
+# here they are accepted with or without a KEYWORD declaration.
 TABLE_KEYWORDS = ("LOT", "SUPPLIER", "CHANNEL", "POINT")
 
 
@@ -147,7 +149,7 @@ def parse_tables(text: str, file: str) -> list[Table]:
                 continue
             if quoted:
                 raise ReadError(file, lineno, col, "keyword", f"expected a keyword, found the string {word!r}")
-            if word not in STANDARD_KEYWORDS and word not in declared:
+            if word not in STANDARD_KEYWORDS and word not in TABLE_KEYWORDS and word not in declared:
                 raise ReadError(file, lineno, col, word, f"expected a standard or declared keyword, found {word!r}",
                                 f'declare it first with KEYWORD "{word}"')
             value = " ".join(v for v, _, _ in toks[1:])
@@ -173,7 +175,7 @@ def parse_tables(text: str, file: str) -> list[Table]:
                 state = "header"
                 continue
             for name, c, _ in toks:
-                if name not in STANDARD_FIELDS and name not in declared:
+                if name not in STANDARD_FIELDS and name not in TABLE_KEYWORDS and name not in declared:
                     raise ReadError(file, lineno, c, name, f"expected a standard or declared field name, found {name!r}",
                                     f'declare it in the header with KEYWORD "{name}"')
                 if name in t.fields:
