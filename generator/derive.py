@@ -1,11 +1,12 @@
-"""Compute: the derived figures of a spec's targets and of its measured units.
+"""Compute: the derived figures of a spec's targets.
 
+Measured units are assessed column-wise in ``assess/units.py``, not here.
 Pure numbers in, pure numbers out (plain dicts shaped like results.json's `derived`);
 no YAML, no HTML, no files.
 """
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 
 import numpy as np
 
@@ -68,14 +69,6 @@ def white_figures(xy) -> dict:
 
 
 @dataclass
-class UnitFigures:
-    serial: str
-    white: dict | None
-    primaries: dict[str, dict]
-    gamut: GamutFigures | None
-
-
-@dataclass
 class Derived:
     white: dict | None
     primaries: dict[str, dict]
@@ -83,7 +76,6 @@ class Derived:
     npm_inverse: list | None
     gamut: GamutFigures | None
     ref_hulls: dict
-    units: list[UnitFigures] = field(default_factory=list)
 
     def as_json(self) -> dict:
         d: dict = {"white": self.white, "primaries": self.primaries}
@@ -119,22 +111,4 @@ def derive(spec: Spec) -> Derived:
     if len(spec.primaries) >= 3:
         gamut = gamut_figures([p.xy for p in spec.primaries], ref_hulls, keys)
 
-    units = []
-    whites = [u.white.xy for u in spec.units if u.white is not None]
-    wfig = iter(white_figures(whites)) if whites else iter(())
-    needed = sorted({g.reference for g in spec.gamut})
-    names = [p.name for p in spec.primaries]
-    for u in spec.units:
-        uw = None
-        if u.white is not None:
-            uw = next(wfig)
-            uw["Y"] = u.white.Y
-        up = {}
-        for name, m in u.primaries.items():
-            uv = xy_to_uv_prime(np.array(m.xy))
-            up[name] = {"x": m.xy[0], "y": m.xy[1], "u_prime": float(uv[0]), "v_prime": float(uv[1]), "Y": m.Y}
-        ug = None
-        if names and all(n in u.primaries for n in names):
-            ug = gamut_figures([u.primaries[n].xy for n in names], ref_hulls, needed)
-        units.append(UnitFigures(u.serial, uw, up, ug))
-    return Derived(white, prims, npm, npm_inv, gamut, ref_hulls, units)
+    return Derived(white, prims, npm, npm_inv, gamut, ref_hulls)

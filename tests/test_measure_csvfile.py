@@ -53,3 +53,11 @@ def test_malformed_csv_names_line_column_and_field(text, line, col, field, words
         parse_csv(text, "bad.csv")
     assert (e.value.file, e.value.line, e.value.col, e.value.field) == ("bad.csv", line, col, field), e.value
     assert words in e.value.message
+
+
+def test_an_empty_Y_cell_is_not_measured_but_a_bad_one_is_an_error():
+    r = parse_csv("serial,channel,x,y,Y\nS1,white,0.31,0.33,\nS2,white,0.31,0.33,120\n", "m.csv")
+    assert np.isnan(r.Y[0]) and r.Y[1] == 120.0
+    with pytest.raises(ReadError) as e:
+        parse_csv("serial,channel,x,y,Y\nS1,white,0.31,0.33,\nS2,white,0.31,0.33,lots\n", "m.csv")
+    assert (e.value.line, e.value.col, e.value.field) == (3, 5, "Y")

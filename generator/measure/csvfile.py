@@ -8,7 +8,7 @@ The first non-comment line names the columns; lines starting with '#' are commen
 | channel | yes | `white` or the name of one of the spec's primaries |
 | lot, supplier | no | the unit's production lot and who made it |
 | point | no | measurement point on the unit (for uniformity, e.g. 1-9 of a 3 x 3 grid) |
-| x, y, Y | one of the two | CIE 1931 chromaticity and luminance Y in cd/m² (Y optional) |
+| x, y, Y | one of the two | CIE 1931 chromaticity and luminance Y in cd/m² (Y optional; an empty Y cell: not measured) |
 | X, Y, Z | | CIE tristimulus values, Y in cd/m² |
 
 Column names are matched without regard to case, except x/X, y/Y and z/Z.
@@ -50,6 +50,16 @@ def _header(cells: list[str], file: str, line: int) -> dict[str, int]:
     if not has_xz and not ("x" in cols and "y" in cols):
         raise ReadError(file, line, 1, "x", "expected columns x and y (and Y), or X, Y and Z, found neither")
     return cols
+
+
+def _optional(rows, i, file, lines):
+    """The luminance column of the x, y, Y form: an empty cell means not measured (NaN)."""
+    cells = [r[i].strip() for r in rows]
+    filled = [k for k, c in enumerate(cells) if c]
+    out = np.full(len(cells), np.nan)
+    if filled:
+        out[filled] = to_float([cells[k] for k in filled], file, lines[filled], lambda _k: i + 1, "Y")
+    return out
 
 
 def _read_quoted(text: str, file: str):
@@ -115,6 +125,6 @@ def parse_csv(text: str, file: str) -> Records:
         r.x, r.y, r.Y = xyz_to_xyY(num("X"), num("Y"), num("Z"))
     else:
         r.x, r.y = num("x"), num("y")
-        r.Y = num("Y") if "Y" in cols else np.full(len(rows), np.nan)
+        r.Y = _optional(rows, cols["Y"], file, line_arr) if "Y" in cols else np.full(len(rows), np.nan)
     r.line = line_arr
     return r
