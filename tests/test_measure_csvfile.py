@@ -61,3 +61,36 @@ def test_an_empty_Y_cell_is_not_measured_but_a_bad_one_is_an_error():
     with pytest.raises(ReadError) as e:
         parse_csv("serial,channel,x,y,Y\nS1,white,0.31,0.33,\nS2,white,0.31,0.33,lots\n", "m.csv")
     assert (e.value.line, e.value.col, e.value.field) == (3, 5, "Y")
+
+
+def _spectral_csv(w, rows):
+    head = "serial,channel," + ",".join(f"{x:g}" for x in w)
+    return head + "\n" + "\n".join(f"{s},white," + ",".join(f"{v:.9g}" for v in vals) for s, vals in rows) + "\n"
+
+
+def test_spectral_columns_equal_energy_gives_the_published_chromaticity():
+    # check-values §12.9: equal energy over 360-830 nm at 1 nm gives (0.333314, 0.333288), not 1/3
+    w = np.arange(360, 831, 5)
+    r = parse_csv(_spectral_csv(w, [("E", np.full(w.size, 0.001))]), "s.csv")
+    assert r.x[0] == pytest.approx(0.333314, abs=2e-6) and r.y[0] == pytest.approx(0.333288, abs=2e-6)
+
+
+def test_spectral_columns_match_a_1_nm_summation_computed_here():
+    from generator.colour.spectral import K_M
+    from generator.data import cmfs
+
+    grid, cmf = cmfs("cie1931-2")
+    S = 0.002 * np.exp(-0.5 * ((grid - 545.0) / 18.0) ** 2)          # a green LED-like peak
+    r = parse_csv(_spectral_csv(grid, [("G", S)]), "s.csv")
+    X, Y, Z = K_M * (S[:, None] * cmf).sum(axis=0)                  # CIE 15:2004 eq. 7.1, Δλ = 1 nm
+    assert r.Y[0] == pytest.approx(Y, rel=1e-9)
+    assert r.x[0] == pytest.approx(X / (X + Y + Z), rel=1e-9) and r.y[0] == pytest.approx(Y / (X + Y + Z), rel=1e-9)
+
+
+def test_spectral_headers_must_increase_and_not_mix_with_colour_columns():
+    with pytest.raises(ReadError) as e:
+        parse_csv("serial,channel,400,390,410\n", "s.csv")
+    assert e.value.col == 4 and "increasing" in e.value.message
+    with pytest.raises(ReadError) as e:
+        parse_csv("serial,channel,x,y,400,410,420\n", "s.csv")
+    assert "found both" in e.value.message

@@ -41,7 +41,7 @@ def locate(written: str, spec_dir: Path, root: Path) -> Path:
     return target
 
 
-def read(path: Path, shown: str) -> list[Records]:
+def read(path: Path, shown: str, observer: str = "cie1931-2") -> list[Records]:
     """Parse one file; ``shown`` is the name errors carry. Raises ReadError on bad content."""
     from .records import ReadError
 
@@ -50,5 +50,5 @@ def read(path: Path, shown: str) -> list[Records]:
     except UnicodeDecodeError as e:
         raise ReadError(shown, 1, 1, "file", f"expected UTF-8 text, found a byte that is not ({e.reason})") from None
     if FORMATS[path.suffix.lower()] == "csv":
-        return [parse_csv(text, shown)]
+        return [parse_csv(text, shown, observer)]
     return parse_cgats(text, shown)

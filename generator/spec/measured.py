@@ -108,7 +108,7 @@ def measured_table(r, v: dict, node, root: Path | None, units: list[Unit], unit_
             continue
         shown = (spec_dir / written).as_posix()
         try:
-            recs = read(path, shown)
+            recs = read(path, shown, observer)
         except ReadError as e:
             r.problems.error(Mark(e.file, e.line, e.col), e.field, e.message, e.hint)
             r.ok = False
