@@ -114,3 +114,9 @@ def test_colourspec_names_need_no_declaration():
     text = GOOD.replace('KEYWORD "LOT"\n', "").replace('KEYWORD "CHANNEL"\n', "")
     first, second = parse_cgats(text, "m.txt")
     assert first.lot == ["L 7", "L 7"] and second.channel == ["red"]
+
+
+def test_sample_name_serves_as_serial_without_sample_id():
+    text = GOOD.replace("SAMPLE_ID XYZ_X", "SAMPLE_NAME XYZ_X")
+    first, _ = parse_cgats(text, "m.txt")
+    assert first.serial == ["A 1", "A2"]

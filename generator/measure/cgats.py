@@ -9,7 +9,8 @@ non-standard keyword or field name), ``NUMBER_OF_FIELDS n``, a ``BEGIN_DATA_FORM
 ``END_DATA`` block of m sets of n values. '#' starts a comment outside quotes; a doubled
 quote inside a string stands for one quote.
 
-For colourspec, a table's rows are units: ``SAMPLE_ID`` (or ``SERIAL``) is the serial,
+For colourspec, a table's rows are units: ``SAMPLE_ID`` (else ``SERIAL``, else
+``SAMPLE_NAME``) is the serial,
 ``XYZ_X XYZ_Y XYZ_Z`` or ``XYY_X XYY_Y [XYY_CAPY]`` the colour; ``LOT``, ``SUPPLIER``,
 ``CHANNEL`` and ``POINT`` may be fields, or header keywords that hold for the whole table
 (declaring them with KEYWORD is allowed, not required).
@@ -227,7 +228,7 @@ def _records(t: Table) -> Records:
         i = f[name]
         return to_float([s[i] for s in t.sets], t.file, lines, lambda _k: 1, name)
 
-    r = Records(t.file, text("SAMPLE_ID", "SERIAL"), text("LOT", default=""), text("SUPPLIER", default=""),
+    r = Records(t.file, text("SAMPLE_ID", "SERIAL", "SAMPLE_NAME"), text("LOT", default=""), text("SUPPLIER", default=""),
                 text("CHANNEL"), text("POINT", default=""))
     if all(k in f for k in ("XYZ_X", "XYZ_Y", "XYZ_Z")):
         r.x, r.y, r.Y = xyz_to_xyY(num("XYZ_X"), num("XYZ_Y"), num("XYZ_Z"))
