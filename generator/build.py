@@ -30,6 +30,7 @@ class Summary:
     pages: int = 0
     figures: int = 0
     seconds: float = 0.0
+    reused: int = 0      # spec pages taken from the incremental-build cache
 
     @property
     def failing(self) -> list[str]:
@@ -40,13 +41,17 @@ class Summary:
         return 1 if self.failing else 0
 
 
-def evaluate(specs_path: Path) -> tuple[list[Evaluated], list]:
-    specs, warnings = load_specs(specs_path)
+def evaluate_specs(specs: list[Spec]) -> list[Evaluated]:
     out = []
     for spec in specs:
         d = derive(spec)
         out.append(Evaluated(spec, d, assess(spec, d)))
-    return out, warnings
+    return out
+
+
+def evaluate(specs_path: Path) -> tuple[list[Evaluated], list]:
+    specs, warnings = load_specs(specs_path)
+    return evaluate_specs(specs), warnings
 
 
 def results_of(evaluated: list[Evaluated]) -> dict:
@@ -61,13 +66,28 @@ def check(specs_path: Path) -> Summary:
     return Summary(evaluated, warnings, results_of(evaluated), seconds=time.perf_counter() - t0)
 
 
-def build(specs_path: Path, out: Path) -> Summary:
+def build(specs_path: Path, out: Path, *, clean: bool = False, incremental: bool = True,
+          history: bool = False) -> Summary:
+    """Build the site into ``out``. Unless ``incremental`` is off, reuse the diagrams and
+    pages of unchanged specs from the cache beside ``out``; ``clean`` empties it first.
+    With ``history``, each spec page lists the git commits that changed its file."""
+    from .cache import Cache, cache_dir_for
     from .publish import publish
     from .render.site import render_site
 
     t0 = time.perf_counter()
     evaluated, warnings = evaluate(specs_path)
     results = results_of(evaluated)
-    site, n_pages, n_figures = render_site(evaluated, results)
+    histories = None
+    if history:
+        from .history import spec_histories
+
+        histories = spec_histories(specs_path)
+    cache = Cache(cache_dir_for(out), clean=clean) if incremental else None
+    site, n_pages, n_figures = render_site(evaluated, results, cache, histories)
     publish(site, out)
-    return Summary(evaluated, warnings, results, n_pages, n_figures, time.perf_counter() - t0)
+    if cache is not None:
+        cache.prune()
+    summary = Summary(evaluated, warnings, results, n_pages, n_figures, time.perf_counter() - t0)
+    summary.reused = cache.hits if cache is not None else 0
+    return summary

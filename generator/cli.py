@@ -1,4 +1,4 @@
-"""Command line: colourspec build | check | schema | new.
+"""Command line: colourspec build | check | diff | schema | new.
 
 Exit status of `check` (and of `build --gate`): 0 every assessed requirement passes;
 1 at least one fails; 2 invalid input or usage; 3 an internal error (a bug: please
@@ -9,7 +9,6 @@ verdicts as readily as passing ones, so it exits 0 once the site is written, unl
 from __future__ import annotations
 
 import argparse
-import json
 import sys
 import traceback
 from pathlib import Path
@@ -17,6 +16,10 @@ from pathlib import Path
 from . import __version__
 
 EXIT_PASS, EXIT_FAIL, EXIT_INPUT, EXIT_INTERNAL = 0, 1, 2, 3
+
+
+class _UsageError(Exception):
+    pass
 
 
 class _Parser(argparse.ArgumentParser):
@@ -35,10 +38,31 @@ def _parser() -> argparse.ArgumentParser:
     b.add_argument("-o", "--output", default="site_output", help="site folder (default: site_output/)")
     b.add_argument("--gate", action="store_true",
                    help="exit 1 when a requirement fails, as check does (default: 0 once the site is written)")
+    b.add_argument("--clean", action="store_true",
+                   help="full build: empty the incremental-build cache (.OUT.cache/ beside OUT) first")
+    b.add_argument("--no-history", action="store_true",
+                   help="leave out the per-spec git history (shown when the specs are in a git repository)")
     c = sub.add_parser("check", help="validate and assess without writing a site")
     c.add_argument("specs", nargs="?", default="specs", help="spec file or folder (default: specs/)")
     c.add_argument("--json", metavar="FILE", help="write results.json here ('-' for standard output)")
-    c.add_argument("--junit", metavar="FILE", help="write JUnit XML here")
+    c.add_argument("--junit", metavar="FILE", help="write JUnit XML here ('-' for standard output)")
+    c.add_argument("--annotations", action="store_true",
+                   help="print CI annotations (::error file=...,line=...::message) on standard output")
+    c.add_argument("--annotations-limit", type=int, default=None, metavar="N",
+                   help="at most N annotations of each kind, then a summary line (default: 10)")
+    c.add_argument("--strict", action="store_true",
+                   help="warnings and indeterminate verdicts count as failures (exit 1)")
+    c.add_argument("--no-gate", action="store_true",
+                   help="exit 0 even when requirements fail: only invalid input fails (exit 2), "
+                        "e.g. for a pre-commit hook")
+    d = sub.add_parser("diff", help="what changed between two spec folders or two git revisions",
+                       description="Compare targets, tolerances, requirements and verdicts of two spec "
+                                   "folders (OLD NEW) or of the specs folder at two git revisions "
+                                   "(--git REV1..REV2 [SPECS]; REV1.. compares with the working folder).")
+    d.add_argument("paths", nargs="*", metavar="PATH", help="OLD NEW folders, or with --git the specs folder")
+    d.add_argument("--git", metavar="REV1..REV2", help="compare two revisions of SPECS (default specs/)")
+    d.add_argument("--format", choices=("text", "md"), default="text", help="text (default) or Markdown")
+    d.add_argument("-o", "--output", default="-", help="file to write ('-' for standard output)")
     sc = sub.add_parser("schema", help="write the JSON Schema (draft-07) of the spec format")
     sc.add_argument("-o", "--output", default="-", help="file to write ('-' for standard output)")
     n = sub.add_parser("new", help="write a commented starter spec")
@@ -74,11 +98,38 @@ def _write_out(path: str, text: str) -> None:
         Path(path).write_text(text, encoding="utf-8")
 
 
+def _annotations(args, problems, evaluated=()) -> None:
+    from .render import annotations as A
+    from .spec.locate import locate_row, unit_files
+
+    items = [A.from_problem(p) for p in problems]
+    for e in evaluated:
+        files = unit_files(e.spec)
+        for row in e.assessment.rows:
+            if row["verdict"] != "pass":
+                items.append(A.from_row(e.spec, row, locate_row(e.spec.source, row, files)))
+    limit = A.DEFAULT_LIMIT if args.annotations_limit is None else args.annotations_limit
+    sys.stdout.write(A.render(items, limit))
+
+
 def cmd_check(args) -> int:
     from .build import check
     from .render.results import dumps
+    from .spec.problems import InputError
 
-    summary = check(Path(args.specs))
+    to_stdout = [name for name, v in (("--json", args.json), ("--junit", args.junit),
+                                       ("--annotations", "-" if args.annotations else None)) if v == "-"]
+    if len(to_stdout) > 1:
+        raise _UsageError(f"{' and '.join(to_stdout)} cannot both write to standard output; "
+                          "give a FILE for all but one")
+    if args.annotations_limit is not None and args.annotations_limit < 0:
+        raise _UsageError("--annotations-limit: expected a number >= 0")
+    try:
+        summary = check(Path(args.specs))
+    except InputError as e:
+        if args.annotations:
+            _annotations(args, e.problems)
+        raise
     for w in summary.warnings:
         print(w.format(), file=sys.stderr)
     if args.json:
@@ -87,20 +138,60 @@ def cmd_check(args) -> int:
         from .render.junit import junit_xml
 
         _write_out(args.junit, junit_xml(summary.results))
-    print(f"Checked {_verdict_line(summary)} in {summary.seconds:.2f} s", file=sys.stderr)
-    return summary.exit_code
+    if args.annotations:
+        _annotations(args, summary.warnings, summary.evaluated)
+    code = summary.exit_code
+    strict_note = ""
+    if args.strict and code == EXIT_PASS:
+        n_ind = sum(e.assessment.verdict == "indeterminate" for e in summary.evaluated)
+        if summary.warnings or n_ind:
+            code = EXIT_FAIL
+            strict_note = (f"; --strict: {len(summary.warnings)} warning(s) and {n_ind} indeterminate "
+                           "spec(s) count as failures")
+    print(f"Checked {_verdict_line(summary)} in {summary.seconds:.2f} s{strict_note}", file=sys.stderr)
+    return EXIT_PASS if args.no_gate else code
 
 
 def cmd_build(args) -> int:
     from .build import build
 
-    summary = build(Path(args.specs), Path(args.output))
+    summary = build(Path(args.specs), Path(args.output), clean=args.clean, history=not args.no_history)
     for w in summary.warnings:
         print(w.format(), file=sys.stderr)
     out = args.output.rstrip("/") + "/"
-    print(f"Built {summary.pages - 1} spec pages and {summary.figures} diagrams into {out} in "
-          f"{summary.seconds:.1f} s ({_verdict_line(summary)}); open {out}index.html")
+    n_spec = summary.pages - 1
+    reused = f"; {summary.reused} unchanged pages reused" if summary.reused else ""
+    print(f"Built {n_spec} spec pages and {summary.figures} diagrams into {out} in "
+          f"{summary.seconds:.1f} s ({_verdict_line(summary)}{reused}); open {out}index.html")
     return summary.exit_code if args.gate else EXIT_PASS
+
+
+def cmd_diff(args) -> int:
+    from . import diff as D
+
+    try:
+        if args.git:
+            rev_a, sep, rev_b = args.git.partition("..")
+            if not sep or not rev_a or rev_b.startswith("."):
+                raise _UsageError("--git: expected REV1..REV2 (or REV1.. for the working folder), "
+                                  f"found {args.git!r}")
+            if len(args.paths) > 1:
+                raise _UsageError("with --git give at most one path: the specs folder")
+            specs = args.paths[0] if args.paths else "specs"
+            old, new = D.side(specs, rev_a), D.side(specs, rev_b or None)
+            labels = (rev_a, rev_b or "working folder")
+        else:
+            if len(args.paths) != 2:
+                raise _UsageError("expected two spec folders, OLD NEW (or --git REV1..REV2)")
+            old, new = D.side(args.paths[0]), D.side(args.paths[1])
+            labels = tuple(args.paths)
+    except D.DiffError as e:
+        raise _UsageError(str(e)) from None
+    diffs = D.compare(old, new)
+    report = D.markdown_report if args.format == "md" else D.text_report
+    _write_out(args.output, report(diffs, *labels))
+    print(f"Compared {len(old)} and {len(new)} specs: {D._counts(diffs)}", file=sys.stderr)
+    return EXIT_PASS
 
 
 def cmd_schema(args) -> int:
@@ -122,9 +213,13 @@ def main(argv: list[str] | None = None) -> int:
 
     args = _parser().parse_args(argv)
     try:
-        return {"build": cmd_build, "check": cmd_check, "new": cmd_new, "schema": cmd_schema}[args.command](args)
+        return {"build": cmd_build, "check": cmd_check, "diff": cmd_diff, "new": cmd_new,
+                "schema": cmd_schema}[args.command](args)
     except InputError as e:
         _report_problems(e.problems)
+        return EXIT_INPUT
+    except _UsageError as e:
+        print(f"colourspec: error: {e}", file=sys.stderr)
         return EXIT_INPUT
     except PublishError as e:
         print(f"colourspec: {e}", file=sys.stderr)

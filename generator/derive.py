@@ -65,7 +65,7 @@ def white_figures(xy) -> dict:
     uv = xy_to_uv_prime(xy)
     cct, duv = cct_duv_from_xy(xy)
     return [{"x": float(a[0]), "y": float(a[1]), "u_prime": float(b[0]), "v_prime": float(b[1]),
-             "cct_K": _num(c), "duv": _num(d)} for a, b, c, d in zip(xy, uv, cct, duv)]
+             "cct_K": _num(c), "duv": _num(d)} for a, b, c, d in zip(xy, uv, cct, duv, strict=True)]
 
 
 @dataclass
@@ -98,7 +98,7 @@ def derive(spec: Spec) -> Derived:
         puv = xy_to_uv_prime(pxy)
         ref_white = white_xy if white_xy else (0.3127, 0.3290)
         dom, comp, pur = dominant_wavelength(pxy, ref_white, spec.observer)
-        for p, uv, d, c, e in zip(spec.primaries, puv, dom, comp, pur):
+        for p, uv, d, c, e in zip(spec.primaries, puv, dom, comp, pur, strict=True):
             prims[p.name] = {"x": p.xy[0], "y": p.xy[1], "u_prime": float(uv[0]), "v_prime": float(uv[1]),
                              "dominant_wavelength_nm": _num(d), "complementary_wavelength_nm": _num(c),
                              "excitation_purity": _num(e)}

@@ -96,13 +96,17 @@ class Spec:
     gamut: list[GamutRequirement]
     units: list[Unit]
     references: dict[str, ReferenceGamut]   # every named space plus specs named by gamut rows
-    inherited: dict[str, str] = field(default_factory=dict)  # top-level key -> ancestor id
+    inherited: dict[str, str] = field(default_factory=dict)  # dotted key path -> ancestor id
     warnings: list = field(default_factory=list)             # Problem, severity "warning"
+    # the merged source node (after inheritance), for locating rows in the YAML; not compared
+    source: object = field(default=None, repr=False, compare=False)
+    digest: str = ""   # sha256 of the spec file's bytes (the incremental build's cache key)
     table: UnitTable | None = None                           # every measured unit, as columns
     decision_rule: str = "simple"                            # "simple" | "guard-banded"
     uncertainty: Uncertainty | None = None
     uniformity: Uniformity | None = None
     measurements: list = field(default_factory=list)        # measurement files read, as shown
+    measurement_digests: list = field(default_factory=list)  # sha256 of each one's bytes (cache key)
 
 
 @dataclass

@@ -143,3 +143,103 @@ def test_generated_key_reference_is_up_to_date():
     assert (ROOT / "docs" / "spec-keys.md").read_text(encoding="utf-8") == spec_keys_markdown(), \
         "regenerate with: python -m generator.docs"
     assert (ROOT / "docs" / "spec-1.schema.json").read_text(encoding="utf-8") == json_schema_text()
+
+
+def test_annotations_go_to_stdout_and_point_at_the_line_of_the_failing_limit(spec_dir):
+    from generator.render.annotations import parse
+
+    spec_dir("tiny.yaml", PASSING.replace("min: 99", "min: 101, max: 120").replace("metric: coverage",
+                                                                                  "metric: area-ratio"))
+    r = run("check", str(spec_dir.dir), "--annotations")
+    assert r.returncode == 1
+    lines = r.stdout.splitlines()
+    assert len(lines) == 1
+    a = parse(lines[0])
+    assert (a.severity, a.file.rsplit("/", 1)[-1], a.line, a.col) == ("error", "tiny.yaml", 14, 56)
+    assert a.title == "colourspec gamut.srgb.area-ratio.xy"
+    assert a.message.startswith("tiny-panel: area-ratio of sRGB (CIE 1931 xy) is fail: 100.0% against 101.0 to")
+    assert "Checked 1 spec: 1 fail" in r.stderr and "::" not in r.stderr
+
+
+def test_annotations_of_invalid_input_carry_file_line_and_col_and_exit_2(spec_dir):
+    from generator.render.annotations import parse
+
+    spec_dir("tiny.yaml", PASSING.replace("status: draft", "status: no"))
+    r = run("check", str(spec_dir.dir), "--annotations")
+    assert r.returncode == 2
+    a = parse(r.stdout.splitlines()[0])
+    assert (a.severity, a.line, a.col, a.title) == ("error", 5, 9, "colourspec status")
+    assert a.message == ("expected one of draft, released, obsolete, found 'no'\n"
+                         "hint: YAML 1.1 would read this word as a boolean; it is kept as text here")
+
+
+def test_annotations_of_the_demo_are_capped_with_a_summary_line():
+    r = run("check", str(DEMO_SPECS), "--annotations", "--annotations-limit", "3")
+    lines = r.stdout.splitlines()
+    assert r.returncode == 1
+    # indeterminate rows (the guard-banded Vela 24 lots) are warnings, capped like the errors
+    assert [ln.split(" ")[0] for ln in lines] == ["::error"] * 3 + ["::warning"] * 3 + ["::notice"]
+    assert "more errors" in lines[-1] and "not shown as annotations (limit 3 per kind" in lines[-1]
+    # a unit read from a measurement file is located at its measurements: entry
+    vela = [ln for ln in lines if "corvinta-vela-24-monitor.yaml" in ln]
+    assert vela and all(",line=4" in ln and ",col=5," in ln for ln in vela)
+
+
+def test_strict_turns_warnings_into_a_failure(spec_dir):
+    # a measured red 0.003 outside the spectral locus is kept with a warning (instrument noise)
+    spec_dir("tiny.yaml", PASSING + "units:\n  - serial: S1\n    red: {x: 0.735, y: 0.262}\n")
+    plain = run("check", str(spec_dir.dir), "--annotations")
+    assert plain.returncode == 0, plain.stderr
+    assert "warning: units[0].red: measured chromaticity" in plain.stderr
+    assert plain.stdout.startswith("::warning file=")
+    strict = run("check", str(spec_dir.dir), "--strict")
+    assert strict.returncode == 1
+    assert "--strict: 1 warning(s) and 0 indeterminate spec(s) count as failures" in strict.stderr
+
+
+def test_strict_without_warnings_still_passes(spec_dir):
+    spec_dir("tiny.yaml", PASSING)
+    assert run("check", str(spec_dir.dir), "--strict").returncode == 0
+
+
+def test_two_machine_outputs_on_stdout_are_a_usage_error(spec_dir):
+    spec_dir("tiny.yaml", PASSING)
+    r = run("check", str(spec_dir.dir), "--json", "-", "--annotations")
+    assert r.returncode == 2
+    assert "--json and --annotations cannot both write to standard output" in r.stderr
+
+
+def test_no_gate_passes_failing_verdicts_but_not_invalid_input(spec_dir):
+    spec_dir("tiny.yaml", PASSING.replace("min: 99", "min: 101, max: 120").replace("metric: coverage",
+                                                                                  "metric: area-ratio"))
+    assert run("check", str(spec_dir.dir)).returncode == 1
+    assert run("check", str(spec_dir.dir), "--no-gate").returncode == 0
+    spec_dir("tiny.yaml", PASSING.replace("status: draft", "status: no"))
+    assert run("check", str(spec_dir.dir), "--no-gate").returncode == 2
+
+
+def test_pre_commit_hooks_run_check_on_the_specs_folder():
+    import shlex
+
+    import yaml
+
+    hooks = {h["id"]: h for h in yaml.safe_load((ROOT / ".pre-commit-hooks.yaml").read_text(encoding="utf-8"))}
+    assert sorted(hooks) == ["colourspec-check", "colourspec-validate"]
+    for h in hooks.values():
+        assert {"id", "name", "entry", "language"} <= set(h)
+        assert h["pass_filenames"] is False and h["language"] == "python"
+        argv = shlex.split(h["entry"])[1:] + h["args"]
+        r = run(*argv)  # the demo specs: valid, with failing units on purpose
+        assert r.returncode == (0 if h["id"] == "colourspec-validate" else 1), r.stderr
+
+
+def test_build_reuses_unchanged_pages_and_clean_draws_everything(spec_dir, tmp_path):
+    spec_dir("tiny.yaml", PASSING)
+    out = tmp_path / "site"
+    first = run("build", str(spec_dir.dir), "-o", str(out))
+    again = run("build", str(spec_dir.dir), "-o", str(out))
+    clean = run("build", str(spec_dir.dir), "-o", str(out), "--clean")
+    assert (first.returncode, again.returncode, clean.returncode) == (0, 0, 0)
+    assert "reused" not in first.stdout and "reused" not in clean.stdout
+    assert "; 1 unchanged pages reused)" in again.stdout
+    assert (tmp_path / ".site.cache").is_dir() and not any((out / n).exists() for n in (".cache", ".site.cache"))

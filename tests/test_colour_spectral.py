@@ -77,7 +77,7 @@ def test_against_colour_science_integration_of_a_smooth_spectrum():
     wl = np.arange(360, 831)
     values = 1 + 0.5 * np.sin(wl / 40.0)
     cmfs = colour.MSDS_CMFS["CIE 1931 2 Degree Standard Observer"]
-    sd = colour.SpectralDistribution(dict(zip(wl, values)))
+    sd = colour.SpectralDistribution(dict(zip(wl, values, strict=True)))
     ref = colour.sd_to_XYZ(sd, cmfs, method="Integration", k=1.0)
     # the two CMF copies differ by up to 5e-7 in single entries
     np.testing.assert_allclose(spectrum_to_XYZ(values), ref, rtol=1e-7)

@@ -124,3 +124,13 @@ def test_site_contains_no_absolute_path_of_the_build_machine(demo_site):
     for p in demo_site.rglob("*"):
         if p.is_file() and p.suffix in (".html", ".json", ".svg"):
             assert root not in p.read_text(encoding="utf-8"), p
+
+
+def test_the_page_of_an_inheriting_spec_lists_each_inherited_value_and_its_source(demo_site):
+    page = (demo_site / "corvinta-brisk-16-office" / "index.html").read_text(encoding="utf-8")
+    section = page.split('<section class="inherited">', 1)[1].split("</section>", 1)[0]
+    link = '<a href="../corvinta-brisk-14-office/index.html">corvinta-brisk-14-office</a>'
+    for key in ("white.target", "white.tolerance", "primaries", "gamut"):
+        assert f"<tr><td><code>{key}</code></td><td>{link}</td></tr>" in section
+    assert "<code>white</code>" not in section and "white.luminance" not in section
+    assert "inherited" not in (demo_site / "corvinta-brisk-14-office" / "index.html").read_text(encoding="utf-8")

@@ -157,3 +157,33 @@ def test_gamut_reference_to_another_spec(load):
         + "gamut:\n  - {reference: orbit-base, metric: coverage, min: 99}\n"
     specs = load({"base.yaml": BASE, "other.yaml": other})
     assert specs["orbit-27"].references["orbit-base"].primaries == ((0.64, 0.33), (0.30, 0.60), (0.15, 0.06))
+
+
+def test_inherited_values_are_listed_by_dotted_path_down_to_what_the_child_overrides(load):
+    specs = load({"base.yaml": BASE, "child.yaml": CHILD})
+    inherited = specs["orbit-24"].inherited
+    # the child writes white.tolerance.delta_uv only: its siblings are inherited one by one
+    assert inherited == {"owner": "orbit-base", "primaries": "orbit-base", "white.target": "orbit-base",
+                         "white.tolerance.cct": "orbit-base", "white.luminance": "orbit-base"}
+    assert specs["orbit-base"].inherited == {}
+
+
+def test_a_grandchild_names_the_ancestor_that_wrote_each_value(load):
+    grandchild = "spec: 1\nid: orbit-24-matte\nextends: orbit-24\nwhite:\n  luminance: {min: 200}\n"
+    specs = load({"base.yaml": BASE, "child.yaml": CHILD, "grandchild.yaml": grandchild})
+    inherited = specs["orbit-24-matte"].inherited
+    assert inherited["title"] == "orbit-24"
+    assert inherited["gamut"] == "orbit-24"
+    assert inherited["white.tolerance.delta_uv"] == "orbit-24"
+    assert inherited["white.tolerance.cct"] == "orbit-base"
+    assert inherited["white.target"] == "orbit-base"
+    assert "white.luminance" not in inherited and "white" not in inherited
+
+
+def test_a_mapping_written_whole_by_one_ancestor_is_listed_once(load):
+    grandchild = "spec: 1\nid: orbit-24-matte\nextends: orbit-24\ntitle: Matte\n"
+    specs = load({"base.yaml": BASE, "child.yaml": CHILD, "grandchild.yaml": grandchild})
+    inherited = specs["orbit-24-matte"].inherited
+    assert inherited["primaries"] == "orbit-base"
+    assert not any(k.startswith("primaries.") for k in inherited)
+    assert "white" not in inherited and inherited["white.tolerance.delta_uv"] == "orbit-24"

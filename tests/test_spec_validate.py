@@ -335,3 +335,11 @@ def test_empty_folder(tmp_path, monkeypatch):
     assert [p.format() for p in e.value.problems] == [
         ".:1:1: expected spec files (*.yaml), found none\n"
         "    hint: run 'colourspec new specs/my-spec.yaml' for a starter spec"]
+
+
+def test_a_primary_that_fails_its_check_is_still_a_primary_for_the_units(load):
+    text = HEAD + "primaries:\n  red: {x: 0.5, y: 0.1}\n  green: {x: 0.30, y: 0.60}\n  blue: {x: 0.15, y: 0.06}\n" \
+        "units:\n  - serial: S1\n    red: {x: 0.64, y: 0.33}\n"
+    errors = load(text)
+    assert len(errors) == 1
+    assert errors[0].startswith("s.yaml:4:8: primaries.red: expected a chromaticity inside the spectral locus")

@@ -64,7 +64,7 @@ def clip_convex(subject, clip):
         if not inp:
             break
 
-        def side(p):
+        def side(p, a=a, edge=edge):
             return edge[0] * (p[1] - a[1]) - edge[1] * (p[0] - a[0])
 
         prev = inp[-1]

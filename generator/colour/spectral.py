@@ -1,7 +1,7 @@
 """Spectral integration and the spectral locus (CIE 15:2004 §7.1, summation at 1 nm)."""
 from __future__ import annotations
 
-from functools import lru_cache
+from functools import cache
 
 import numpy as np
 
@@ -27,7 +27,7 @@ def spectrum_to_XYZ(values, observer: str = "cie1931-2", normalise_Y: float | No
     return XYZ
 
 
-@lru_cache(maxsize=None)
+@cache
 def spectral_locus_xy(observer: str = "cie1931-2") -> tuple[np.ndarray, np.ndarray]:
     """Return (wavelengths, xy) of the spectral locus at 1 nm, 360-830 nm.
 

@@ -7,7 +7,7 @@ the locus. Excitation purity is |WS| / |WB| with B the boundary point on the ray
 """
 from __future__ import annotations
 
-from functools import lru_cache
+from functools import cache
 
 import numpy as np
 
@@ -15,7 +15,7 @@ from .gamut import convex_hull
 from .spectral import spectral_locus_xy
 
 
-@lru_cache(maxsize=None)
+@cache
 def locus_boundary(observer: str = "cie1931-2"):
     """Closed boundary of real chromaticities in xy: the convex hull of the spectral
     locus with the purple line (CIE 15:2004 §7). Returns (hull (k,2), wl (n,), xy (n,2))."""

@@ -5,7 +5,7 @@ run time; the CSV files ship inside the package.
 """
 from __future__ import annotations
 
-from functools import lru_cache
+from functools import cache
 from importlib import resources
 
 import numpy as np
@@ -23,7 +23,7 @@ OBSERVERS = {
 }
 
 
-@lru_cache(maxsize=None)
+@cache
 def cmfs(observer: str = "cie1931-2") -> tuple[np.ndarray, np.ndarray]:
     """Return (wavelengths_nm, cmf) with cmf of shape (n, 3): x̄, ȳ, z̄ at 1 nm, 360-830 nm."""
     try:

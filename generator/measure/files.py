@@ -41,14 +41,41 @@ def locate(written: str, spec_dir: Path, root: Path) -> Path:
     return target
 
 
-def read(path: Path, shown: str, observer: str = "cie1931-2") -> list[Records]:
-    """Parse one file; ``shown`` is the name errors carry. Raises ReadError on bad content."""
+class FolderFiles:
+    """Measurement files on disk, found relative to the real location of the spec file that
+    names them (``spec_paths``: spec file name as shown -> its path) inside ``root``."""
+
+    def __init__(self, root: Path, spec_paths: dict[str, Path] | None = None):
+        self.root, self.spec_paths = root, dict(spec_paths or {})
+
+    def find(self, written: str, spec_file: str) -> Path:
+        real = self.spec_paths.get(spec_file, Path(spec_file))
+        return locate(written, real.parent, self.root)
+
+    def read_bytes(self, path: Path) -> bytes:
+        return path.read_bytes()
+
+
+class NoFiles:
+    """For specs given as bytes with no folder to read measurement files from."""
+
+    def find(self, written: str, spec_file: str):
+        raise PathRefused(f"expected a measurement file, found {written!r} with no folder to read it from",
+                          "load the specs from their folder")
+
+    def read_bytes(self, path) -> bytes:  # pragma: no cover - find always refuses
+        raise OSError("no folder")
+
+
+def read(path: Path, shown: str, observer: str = "cie1931-2", data: bytes | None = None) -> list[Records]:
+    """Parse one file (its ``data`` if already read); ``shown`` is the name errors carry.
+    Raises ReadError on bad content."""
     from .records import ReadError
 
     try:
-        text = path.read_bytes().decode("utf-8-sig")
+        text = (path.read_bytes() if data is None else data).decode("utf-8-sig")
     except UnicodeDecodeError as e:
         raise ReadError(shown, 1, 1, "file", f"expected UTF-8 text, found a byte that is not ({e.reason})") from None
-    if FORMATS[path.suffix.lower()] == "csv":
+    if FORMATS[Path(path).suffix.lower()] == "csv":
         return [parse_csv(text, shown, observer)]
     return parse_cgats(text, shown)

@@ -7,7 +7,6 @@ import re
 import numpy as np
 
 from ..assess.stats import _series
-from . import figures as F
 from .pages import SYMBOL, fmt
 
 HISTOGRAM_MIN_UNITS = 10      # smaller lots get the table, not a histogram
@@ -47,6 +46,8 @@ def _stat_view(st) -> dict:
 
 
 def _histograms(e, members, prefix: str) -> list[dict]:
+    from . import figures as F  # imported only when a figure is drawn (matplotlib is slow to load)
+
     a = e.assessment
     rule = a.rule
     out = []
@@ -71,6 +72,7 @@ def _histograms(e, members, prefix: str) -> list[dict]:
 def _diagrams(e, members, prefix: str, what: str, full: bool = True) -> list[dict]:
     """A lot's diagrams; none for lots smaller than HISTOGRAM_MIN_UNITS, whose units the
     spec page's diagrams already show legibly."""
+    from . import figures as F  # imported only when a figure is drawn (matplotlib is slow to load)
     from .site import layer_for
 
     out = []

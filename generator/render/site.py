@@ -6,16 +6,17 @@ import json
 import numpy as np
 
 from ..publish import SiteFiles
-from . import figures as F
 from .lots import _units_view, lot_pages, page_names
 from .pages import (CAUTION, CAUTION_CATEGORIES, SYMBOL, decision_text, environment, fmt, methods,
                     render_markdown, row_view, templates_dir)
+from .results import dumps
 
 MAX_UNIT_ROWS = 3000   # unit rows listed on a spec page; results.json has all
-from .results import dumps
 
 
 def _tolerance_shapes(tol, centre_xy, label):
+    from . import figures as F  # imported only when a figure is drawn (matplotlib is slow to load)
+
     shapes = []
     if tol.delta_uv is not None:
         shapes.append((f"{label}: Δu'v' ≤ {tol.delta_uv:g}", F.uv_circle_xy(centre_xy, tol.delta_uv)))
@@ -59,7 +60,9 @@ def _unit_points(e, channels, idx):
     return out
 
 
-def layer_for(e, which: str, members=None, title_suffix: str = "") -> F.Layer:
+def layer_for(e, which: str, members=None, title_suffix: str = ""):
+    from . import figures as F  # imported only when a figure is drawn (matplotlib is slow to load)
+
     spec = e.spec
     idx = plotted_units(e, members)
     refs = []
@@ -88,6 +91,8 @@ def layer_for(e, which: str, members=None, title_suffix: str = "") -> F.Layer:
 
 
 def _figures(e) -> list[dict]:
+    from . import figures as F  # imported only when a figure is drawn (matplotlib is slow to load)
+
     out = []
     spec = e.spec
     if spec.primaries or spec.white:
@@ -191,19 +196,41 @@ def index_context(evaluated) -> dict:
     return {"items": items, "counts": counts, "root": ""}
 
 
-def render_site(evaluated, results: dict):
+def spec_files(e, env, history=None) -> dict[str, bytes]:
+    """The costly part of a spec's output (name -> bytes): its diagrams, its page, and its
+    lot and supplier pages with their diagrams and histograms."""
+    figs = _figures(e)
+    files = {f["file"]: f["svg"].encode("utf-8") for f in figs}
+    ctx = spec_context(e, figs)
+    ctx["history"] = [h.as_json() for h in history] if history is not None else None
+    files["index.html"] = env.get_template("spec.html").render(**ctx).encode("utf-8")
+    for path, content in lot_pages(e, env, decision_text(e.spec)):
+        files[path] = content.encode("utf-8") if isinstance(content, str) else content
+    return files
+
+
+def render_site(evaluated, results: dict, cache=None, histories=None):
+    """The whole site in memory; with a cache (generator/cache.py), a spec whose inputs are
+    unchanged takes its diagrams and page from it instead of drawing them again.
+    ``histories`` (file -> history entries, generator/history.py) adds a history section."""
+    from ..cache import spec_key
+
     env = environment()
     site = SiteFiles()
     n_fig = 0
+    by_id = {e.spec.id: e.spec for e in evaluated}
     for e in evaluated:
-        figs = _figures(e)
-        n_fig += len(figs)
-        for f in figs:
-            site.add(f"{e.spec.id}/{f['file']}", f["svg"])
-        site.add(f"{e.spec.id}/index.html", env.get_template("spec.html").render(**spec_context(e, figs)))
-        for path, content in lot_pages(e, env, decision_text(e.spec)):
-            site.add(f"{e.spec.id}/{path}", content)
-            n_fig += path.endswith(".svg")
+        history = histories.get(e.spec.file, []) if histories is not None else None
+        extra = json.dumps([h.as_json() for h in history]) if history is not None else ""
+        key = spec_key(e.spec, by_id, extra) if cache is not None else ""
+        files = cache.get(key) if cache is not None else None
+        if files is None:
+            files = spec_files(e, env, history)
+            if cache is not None:
+                cache.put(key, files)
+        n_fig += sum(name.endswith(".svg") for name in files)
+        for name in sorted(files):
+            site.add(f"{e.spec.id}/{name}", files[name])
         entry = next(s for s in results["specs"] if s["id"] == e.spec.id)
         site.add(f"{e.spec.id}/results.json", json.dumps(entry, indent=2, ensure_ascii=False) + "\n")
     site.add("index.html", env.get_template("index.html").render(**index_context(evaluated)))

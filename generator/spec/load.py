@@ -25,12 +25,21 @@ class SourceSpec:
     id: str
 
 
-def display_path(path: Path) -> str:
+def display_path(path: Path, root: Path | None = None) -> str:
+    """A spec's name as shown on pages and in results: relative to the working folder
+    when inside it, else relative to the specs folder's parent (``specs/x.yaml``), so that
+    no absolute path of the build machine reaches the published site."""
     try:
         rel = os.path.relpath(path)
     except ValueError:
-        return str(path)
-    return rel if not rel.startswith("..") else str(path)
+        rel = ".."
+    if not rel.startswith(".."):
+        return Path(rel).as_posix()
+    base = (root if root is not None and root.is_dir() else path).resolve().parent
+    try:
+        return Path(path).resolve().relative_to(base).as_posix()
+    except ValueError:
+        return Path(path).name
 
 
 def discover(specs: Path, problems: Problems) -> list[Path]:
@@ -49,16 +58,23 @@ def discover(specs: Path, problems: Problems) -> list[Path]:
     return files
 
 
-def read_sources(files: list[Path], problems: Problems) -> list[SourceSpec]:
-    out: list[SourceSpec] = []
-    seen: dict[str, SourceSpec] = {}
+def read_files(files: list[Path], problems: Problems, root: Path | None = None) -> list[tuple[str, bytes]]:
+    """(name shown to people, bytes) of every file that can be read."""
+    out = []
     for path in files:
-        shown = display_path(path)
+        shown = display_path(path, root)
         try:
-            data = path.read_bytes()
+            out.append((shown, path.read_bytes()))
         except OSError as e:
             problems.error(Mark(shown, 1, 1), "", f"cannot read the file: {e.strerror}")
-            continue
+    return out
+
+
+def read_sources(documents: list[tuple[str, bytes]], problems: Problems) -> list[SourceSpec]:
+    out: list[SourceSpec] = []
+    seen: dict[str, SourceSpec] = {}
+    for shown, data in documents:
+        path = Path(shown)
         node = parse_yaml(data, shown, problems)
         if node is None:
             continue
@@ -81,7 +97,9 @@ def read_sources(files: list[Path], problems: Problems) -> list[SourceSpec]:
 
 def merge(parent: Node, child: Node, parent_id: str) -> Node:
     """Deep merge for inheritance: mappings merge key by key, the child wins; lists and
-    scalars are replaced whole. Keys taken from the parent remember the parent's id."""
+    scalars are replaced whole. Keys taken whole from the parent remember the id of the
+    spec that wrote them (the parent, or the ancestor it inherited them from); a key the
+    child states, even in part, is not listed: its merged mapping lists its own."""
     if not (isinstance(parent, Map) and isinstance(child, Map)):
         return child
     items = dict(parent.items)
@@ -90,9 +108,25 @@ def merge(parent: Node, child: Node, parent_id: str) -> Node:
     for k, v in child.items.items():
         items[k] = merge(parent.items[k], v, parent_id) if k in parent.items else v
         marks[k] = child.key_marks[k]
-        if not (isinstance(v, Map) and k in parent.items):
-            inherited.pop(k, None)
+        inherited.pop(k, None)
     return Map(items, marks, child.mark, inherited)
+
+
+def inherited_paths(node: Node, prefix: str = "", source: str | None = None) -> dict[str, str]:
+    """Every value of a merged spec that was inherited: dotted key path -> the id of the
+    spec that wrote it, at the shallowest level where one ancestor wrote all of it."""
+    if not isinstance(node, Map):
+        return {}
+    out: dict[str, str] = {}
+    for k, v in node.items.items():
+        path = f"{prefix}{k}"
+        src = node.inherited.get(k, source)
+        sub = inherited_paths(v, path + ".", src) if isinstance(v, Map) and v.items else {}
+        if src is not None and (not sub or set(sub.values()) == {src}):
+            out[path] = src
+        else:
+            out.update(sub)
+    return out
 
 
 def apply_inheritance(sources: list[SourceSpec], problems: Problems) -> dict[str, Node]:
@@ -140,11 +174,26 @@ def apply_inheritance(sources: list[SourceSpec], problems: Problems) -> dict[str
 
 def load_specs(specs: Path):
     """Return (list of Spec, warnings) or raise InputError with every problem found."""
-    from .resolve import resolve_spec
+    from ..measure.files import FolderFiles
 
     problems = Problems()
-    files = discover(specs, problems)
-    sources = read_sources(files, problems)
+    paths = discover(specs, problems)
+    documents = read_files(paths, problems, specs)
+    files = FolderFiles(specs if specs.is_dir() else specs.parent, {display_path(p, specs): p for p in paths})
+    return load_documents(documents, problems, files)
+
+
+def load_documents(documents: list[tuple[str, bytes]], problems: Problems | None = None, files=None):
+    """load_specs for files already in memory, e.g. read from a git revision: a list of
+    (file name as shown to people, bytes). ``files`` finds and reads the measurement files
+    the specs name (``measure.files.FolderFiles``); without it, naming one is an error."""
+    import hashlib
+
+    from .resolve import resolve_spec
+
+    problems = problems if problems is not None else Problems()
+    digests = {shown: hashlib.sha256(data).hexdigest() for shown, data in documents}
+    sources = read_sources(documents, problems)
     merged = apply_inheritance(sources, problems)
     values = {}
     for src in sources:
@@ -155,11 +204,13 @@ def load_specs(specs: Path):
         if v is not INVALID:
             values[src.file] = (src, node, v)
     result = []
-    root = specs if specs.is_dir() else specs.parent
     by_id = {v["id"]: v for (_, _, v) in values.values()}
     for file, (_, node, v) in values.items():
-        spec = resolve_spec(file, node, v, by_id, problems, root)
+        spec = resolve_spec(file, node, v, by_id, problems, files)
         if spec is not None:
+            spec.source = node
+            spec.digest = digests.get(file, "")
+            spec.inherited = {k: v for k, v in inherited_paths(node).items() if k != "spec"}
             result.append(spec)
     if problems.errors:
         raise InputError(problems.sorted())

@@ -2,12 +2,13 @@
 UnitTable, plus the decision rule, uncertainties and uniformity limits."""
 from __future__ import annotations
 
+import hashlib
 from pathlib import Path
 
 import numpy as np
 
 from ..colour.wavelength import locus_boundary, outside_locus_distance
-from ..measure.files import PathRefused, locate, read
+from ..measure.files import PathRefused, read
 from ..measure.records import ReadError, Records
 from ..measure.units import group
 from ..model import Uncertainty, Uniformity, Unit, UnitTable
@@ -90,31 +91,38 @@ def physical_check(observer: str, locus_tolerance: float, measured_limit: float)
     return check
 
 
-def measured_table(r, v: dict, node, root: Path | None, units: list[Unit], unit_lines: list[int],
-                   primaries: list[str], observer: str, centre: str, limits) -> tuple[UnitTable, list[str]]:
-    """Every unit of the spec; errors and warnings go to the resolver ``r``."""
+def measured_table(r, v: dict, node, files, units: list[Unit], unit_lines: list[int],
+                   primaries: list[str], observer: str, centre: str, limits):
+    """(table of every unit of the spec, measurement files as shown, sha256 of each file's
+    bytes); ``files`` finds and reads them (measure.files.FolderFiles); errors and warnings
+    go to the resolver ``r``."""
     parts = [inline_records(r.file, units, unit_lines)] if units else []
     inline_serials = {u.serial for u in units}
-    shown_files = []
+    shown_files, digests = [], []
     for i, written in enumerate(v.get("measurements", [])):
         from .resolve import mark_at
 
         mark = mark_at(node, ["measurements", i])
-        spec_dir = Path(mark.file).parent
         try:
-            path = locate(written, spec_dir, root if root is not None else spec_dir)
+            path = files.find(written, mark.file)
         except PathRefused as e:
             r.error(["measurements", i], e.message, e.hint)
             continue
-        shown = (spec_dir / written).as_posix()
+        shown = (Path(mark.file).parent / written).as_posix()
         try:
-            recs = read(path, shown, observer)
+            data = files.read_bytes(path)
+        except OSError as e:
+            r.error(["measurements", i], f"cannot read the file: {e.strerror or e}")
+            continue
+        try:
+            recs = read(path, shown, observer, data)
         except ReadError as e:
             r.problems.error(Mark(e.file, e.line, e.col), e.field, e.message, e.hint)
             r.ok = False
             continue
         parts += recs
         shown_files.append(shown)
+        digests.append(hashlib.sha256(data).hexdigest())
     table, errors, warnings = group(parts, ["white"] + primaries, centre, physical_check(observer, *limits))
     # an inline unit is physically checked by the resolver already; skip its duplicates here
     for e in errors:
@@ -123,4 +131,4 @@ def measured_table(r, v: dict, node, root: Path | None, units: list[Unit], unit_
     for w in warnings:
         if w.file != r.file or not inline_serials:
             r.problems.warn(Mark(w.file, w.line, w.col), w.field, w.message, w.hint)
-    return table, shown_files
+    return table, shown_files, digests

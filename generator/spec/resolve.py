@@ -141,7 +141,7 @@ def _reference_from_spec(other: dict) -> ReferenceGamut | None:
                           f"spec {other['id']}")
 
 
-def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems, root=None) -> Spec | None:
+def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems, files=None) -> Spec | None:
     r = _Resolver(file, node, problems)
     observer = v.get("observer", "cie1931-2")
 
@@ -193,7 +193,7 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems,
 
     units = []
     unit_lines = []
-    names = [p.name for p in primaries]
+    names = [n for n in pv if n not in RESERVED_PRIMARY_NAMES]  # declared, even if one failed a check
     seen_serials: dict[str, int] = {}
     for i, u in enumerate(v.get("units", [])):
         serial = u["serial"]
@@ -219,13 +219,17 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems,
         unit_lines.append(mark_at(node, ["units", i]).line)
 
     uniformity = uniformity_of(v)
-    table, files = measured_table(r, v, node, root, units, unit_lines, names, observer,
+    if files is None:
+        from ..measure.files import NoFiles
+
+        files = NoFiles()
+    table, shown_files, digests = measured_table(r, v, node, files, units, unit_lines, names, observer,
                                   uniformity.centre if uniformity else "C",
                                   (LOCUS_TOLERANCE, MEASURED_LOCUS_LIMIT))
 
     if not r.ok:
         return None
-    warnings = [p for p in problems.warnings if p.file == file or p.file in files]
+    warnings = [p for p in problems.warnings if p.file == file or p.file in shown_files]
     return Spec(
         id=v["id"], file=file, title=v.get("title", v["id"]), product=v.get("product", ""),
         family=v.get("family", ""), category=v.get("category", "display"),
@@ -234,7 +238,7 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems,
         white=white, primaries=primaries, gamut=gamut, units=units, references=references,
         inherited=dict(node.inherited), warnings=warnings, table=table,
         decision_rule=v.get("decision_rule", "simple"), uncertainty=uncertainty_of(v), uniformity=uniformity,
-        measurements=files)
+        measurements=shown_files, measurement_digests=digests)
 
 
 def _check_gamut_shape(r: _Resolver, names: list[str], primaries: list[Primary], white: White | None) -> None:

@@ -1,0 +1,224 @@
+"""Incremental builds: only what an edit touches is drawn again, and the result equals a
+full build byte for byte; the cache stays outside the site."""
+from __future__ import annotations
+
+import os
+import shutil
+
+import pytest
+
+from generator import cache as C
+from generator.build import build
+
+from .conftest import DEMO_SPECS
+
+PANEL = """\
+spec: 1
+id: {id}
+title: Panel {id}
+white:
+  target: D65
+  tolerance: {{delta_uv: 0.004}}
+primaries:
+  red:   {{x: 0.640, y: 0.330}}
+  green: {{x: 0.300, y: 0.600}}
+  blue:  {{x: 0.150, y: 0.060}}
+gamut:
+  - {{reference: {ref}, metric: coverage, diagram: xy, min: 90}}
+"""
+CHILD = "spec: 1\nid: {id}\nextends: {parent}\ntitle: Child {id}\n"
+
+
+def files_of(site):
+    return {p.relative_to(site).as_posix(): p.read_bytes() for p in sorted(site.rglob("*")) if p.is_file()}
+
+
+@pytest.fixture
+def library(spec_dir, tmp_path, monkeypatch):
+    monkeypatch.chdir(tmp_path)
+    spec_dir("a.yaml", PANEL.format(id="a", ref="srgb"))
+    spec_dir("b.yaml", PANEL.format(id="b", ref="a"))      # uses spec a as its reference gamut
+    spec_dir("c.yaml", CHILD.format(id="c", parent="a"))   # inherits from a
+    spec_dir("d.yaml", PANEL.format(id="d", ref="bt2020"))
+    return spec_dir
+
+
+def test_second_build_reuses_every_page_and_changes_nothing(library, tmp_path):
+    out = tmp_path / "site"
+    first = build(library.dir, out)
+    before = files_of(out)
+    second = build(library.dir, out)
+    assert (first.reused, second.reused) == (0, 4)
+    assert files_of(out) == before
+
+
+def test_an_edit_redraws_that_spec_and_what_depends_on_it_and_equals_a_full_build(library, tmp_path):
+    out, full = tmp_path / "site", tmp_path / "full"
+    build(library.dir, out)
+    p = library.dir / "a.yaml"
+    p.write_text(p.read_text().replace("delta_uv: 0.004", "delta_uv: 0.005"))
+    inc = build(library.dir, out)
+    assert inc.reused == 1  # a, b (reference) and c (child) are drawn again; d is reused
+    build(library.dir, full, incremental=False)
+    assert files_of(out) == files_of(full)
+
+
+def test_an_edit_of_a_leaf_redraws_only_the_leaf(library, tmp_path):
+    out = tmp_path / "site"
+    build(library.dir, out)
+    p = library.dir / "d.yaml"
+    p.write_text(p.read_text().replace("min: 90", "min: 91"))
+    assert build(library.dir, out).reused == 3
+
+
+def test_the_cache_is_a_hidden_folder_beside_the_site_and_never_inside_it(library, tmp_path):
+    out = tmp_path / "site"
+    evaluated = build(library.dir, out).evaluated
+    by_id = {e.spec.id: e.spec for e in evaluated}
+    assert C.cache_dir_for(out) == tmp_path / ".site.cache"
+    assert sorted(p.name for p in (tmp_path / ".site.cache").iterdir()) == sorted(
+        C.spec_key(e.spec, by_id) for e in evaluated)
+    assert not any("cache" in rel or "manifest" in rel for rel in files_of(out))
+
+
+def test_clean_empties_the_cache_first(library, tmp_path):
+    out = tmp_path / "site"
+    build(library.dir, out)
+    assert build(library.dir, out, clean=True).reused == 0
+    assert build(library.dir, out).reused == 4
+
+
+def test_entries_no_build_uses_are_pruned(library, tmp_path):
+    out = tmp_path / "site"
+    build(library.dir, out)
+    (C.cache_dir_for(out) / "stale-entry").mkdir()
+    (library.dir / "d.yaml").unlink()
+    build(library.dir, out)
+    names = sorted(p.name for p in C.cache_dir_for(out).iterdir())
+    assert len(names) == 3 and "stale-entry" not in names
+
+
+def test_a_damaged_entry_is_drawn_again(library, tmp_path):
+    out = tmp_path / "site"
+    build(library.dir, out)
+    before = files_of(out)
+    for entry in C.cache_dir_for(out).iterdir():
+        (entry / "manifest.json").write_text("{not json")
+    assert build(library.dir, out).reused == 0
+    assert files_of(out) == before
+
+
+def test_the_key_changes_with_the_tool_the_file_name_and_every_dependency(library, monkeypatch):
+    from generator.spec.load import load_specs
+
+    specs, _ = load_specs(library.dir)
+    by_id = {s.id: s for s in specs}
+    assert C.dependencies(by_id["b"], by_id) == ["a", "b"]
+    assert C.dependencies(by_id["c"], by_id) == ["a", "c"]
+    assert C.dependencies(by_id["d"], by_id) == ["d"]
+    key = C.spec_key(by_id["c"], by_id)
+    by_id["a"].digest = "0" * 64
+    assert C.spec_key(by_id["c"], by_id) != key
+    k2 = C.spec_key(by_id["c"], by_id)
+    monkeypatch.setattr(C, "tool_digest", lambda: "another version")
+    assert C.spec_key(by_id["c"], by_id) != k2
+
+
+def test_tool_digest_covers_templates_and_source(tmp_path):
+    a = C._tree_digest(DEMO_SPECS.parent / "templates")
+    shutil.copytree(DEMO_SPECS.parent / "templates", tmp_path / "t")
+    assert C._tree_digest(tmp_path / "t") == a
+    with open(tmp_path / "t" / "spec.html", "a", encoding="utf-8") as f:
+        f.write(" ")
+    assert C._tree_digest(tmp_path / "t") != a
+
+
+def test_incremental_demo_build_equals_a_full_build(tmp_path):
+    """The demo library, edited in its inherited parent: incremental == full, byte for byte."""
+    specs = tmp_path / "specs"
+    shutil.copytree(DEMO_SPECS, specs)
+    cwd = os.getcwd()
+    os.chdir(tmp_path)
+    try:
+        build(specs, tmp_path / "site")
+        p = specs / "corvinta-brisk-14-office.yaml"
+        p.write_text(p.read_text(encoding="utf-8").replace("min: 95}", "min: 94}"), encoding="utf-8")
+        inc = build(specs, tmp_path / "site")
+        build(specs, tmp_path / "full", incremental=False)
+    finally:
+        os.chdir(cwd)
+    # brisk-14 and brisk-16 (its child) are drawn again, every other demo spec is reused
+    assert inc.reused == len(inc.evaluated) - 2
+    assert files_of(tmp_path / "site") == files_of(tmp_path / "full")
+
+
+MEASURED = """\
+spec: 1
+id: m
+title: Panel m, measured lot
+white:
+  target: D65
+  tolerance: {delta_uv: 0.004}
+primaries:
+  red:   {x: 0.640, y: 0.330}
+  green: {x: 0.300, y: 0.600}
+  blue:  {x: 0.150, y: 0.060}
+measurements:
+  - lots/lot-7.csv
+"""
+
+
+def _lot_csv(white_x: float = 0.3127) -> str:
+    lines = ["serial,lot,supplier,channel,x,y,Y"]
+    for k in range(12):   # enough units for the lot page's diagrams and histograms
+        x = white_x if k == 0 else 0.3127 + 0.0001 * (k % 3)
+        lines.append(f"M{k:02d},L7,Acme Panels,white,{x:.4f},0.3290,{300 + k}")
+        lines.append(f"M{k:02d},L7,Acme Panels,red,0.6400,0.3300,")
+    return "\n".join(lines) + "\n"
+
+
+@pytest.fixture
+def measured(library):
+    library("m.yaml", MEASURED)
+    (library.dir / "lots").mkdir()
+    (library.dir / "lots" / "lot-7.csv").write_text(_lot_csv(), encoding="utf-8")
+    return library
+
+
+def test_lot_and_supplier_pages_come_from_the_cache_and_equal_a_full_build(measured, tmp_path):
+    out, full = tmp_path / "site", tmp_path / "full"
+    build(measured.dir, out)
+    second = build(measured.dir, out)
+    assert second.reused == 5
+    build(measured.dir, full, incremental=False)
+    files = files_of(out)
+    assert {"m/lots/L7.html", "m/suppliers/Acme-Panels.html"} <= set(files)
+    assert any(name.startswith("m/lots/") and name.endswith(".svg") for name in files)
+    assert files == files_of(full)
+
+
+def test_editing_a_measurement_file_redraws_that_spec_with_its_lot_pages(measured, tmp_path):
+    out, full = tmp_path / "site", tmp_path / "full"
+    build(measured.dir, out)
+    before = files_of(out)
+    (measured.dir / "lots" / "lot-7.csv").write_text(_lot_csv(white_x=0.3300), encoding="utf-8")
+    inc = build(measured.dir, out)
+    assert inc.reused == 4   # a, b, c and d are unchanged; only m is drawn again
+    after = files_of(out)
+    for name in ("m/index.html", "m/xy.svg", "m/white.svg", "m/lots/L7.html", "m/suppliers/Acme-Panels.html"):
+        assert after[name] != before[name], name
+    assert all(after[n] == before[n] for n in before if n.startswith(("a/", "d/")))
+    build(measured.dir, full, incremental=False)
+    assert after == files_of(full)
+
+
+def test_the_key_changes_with_the_bytes_of_a_measurement_file(measured):
+    from generator.spec.load import load_specs
+
+    specs, _ = load_specs(measured.dir)
+    by_id = {s.id: s for s in specs}
+    m = by_id["m"]
+    assert m.measurements == [f"{m.file.rsplit('/', 1)[0]}/lots/lot-7.csv"]
+    key = C.spec_key(m, by_id)
+    m.measurement_digests = ["0" * 64]
+    assert C.spec_key(m, by_id) != key
