@@ -67,10 +67,12 @@ def check(specs_path: Path) -> Summary:
 
 
 def build(specs_path: Path, out: Path, *, clean: bool = False, incremental: bool = True,
-          history: bool = False) -> Summary:
-    """Build the site into ``out``. Unless ``incremental`` is off, reuse the diagrams and
-    pages of unchanged specs from the cache beside ``out``; ``clean`` empties it first.
-    With ``history``, each spec page lists the git commits that changed its file."""
+          history: bool = False, site_url: str | None = None, reload: bool = False) -> Summary:
+    """Build the site into ``out``. Unless ``incremental`` is off, reuse the diagrams, their
+    data files and the pages of unchanged specs from the cache beside ``out``; ``clean``
+    empties it first. With ``history``, each spec page lists the git commits that changed
+    its file. ``site_url`` (the site's public address) adds canonical links; ``reload``
+    adds the live-preview script that ``colourspec serve`` uses."""
     from .cache import Cache, cache_dir_for
     from .publish import publish
     from .render.site import render_site
@@ -84,7 +86,8 @@ def build(specs_path: Path, out: Path, *, clean: bool = False, incremental: bool
 
         histories = spec_histories(specs_path)
     cache = Cache(cache_dir_for(out), clean=clean) if incremental else None
-    site, n_pages, n_figures = render_site(evaluated, results, cache, histories)
+    site, n_pages, n_figures = render_site(evaluated, results, cache, histories,
+                                           site_url=site_url, reload=reload)
     publish(site, out)
     if cache is not None:
         cache.prune()

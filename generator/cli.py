@@ -1,4 +1,4 @@
-"""Command line: colourspec build | check | diff | schema | new.
+"""Command line: colourspec build | check | diff | serve | schema | new.
 
 Exit status of `check` (and of `build --gate`): 0 every assessed requirement passes;
 1 at least one fails; 2 invalid input or usage; 3 an internal error (a bug: please
@@ -42,6 +42,16 @@ def _parser() -> argparse.ArgumentParser:
                    help="full build: empty the incremental-build cache (.OUT.cache/ beside OUT) first")
     b.add_argument("--no-history", action="store_true",
                    help="leave out the per-spec git history (shown when the specs are in a git repository)")
+    b.add_argument("--site-url", metavar="URL", type=_site_url,
+                   help="public address of the published site (https://...), for canonical links; "
+                        "links between pages stay relative either way")
+    sv = sub.add_parser("serve", help="build, serve on 127.0.0.1 and rebuild when a spec or template changes")
+    sv.add_argument("specs", nargs="?", default="specs", help="spec file or folder (default: specs/)")
+    sv.add_argument("-o", "--output", default="site_output", help="site folder (default: site_output/)")
+    sv.add_argument("--port", type=int, default=8000, help="port on 127.0.0.1 (default: 8000; 0 picks a free one)")
+    sv.add_argument("--interval", type=float, default=0.2, help="seconds between checks for changes (default: 0.2)")
+    sv.add_argument("--no-history", action="store_true",
+                    help="leave out the per-spec git history (read again at each rebuild)")
     c = sub.add_parser("check", help="validate and assess without writing a site")
     c.add_argument("specs", nargs="?", default="specs", help="spec file or folder (default: specs/)")
     c.add_argument("--json", metavar="FILE", help="write results.json here ('-' for standard output)")
@@ -69,6 +79,12 @@ def _parser() -> argparse.ArgumentParser:
     n.add_argument("path", help="where to write it, e.g. specs/my-panel.yaml")
     n.add_argument("--id", help="spec id (default: from the file name)")
     return p
+
+
+def _site_url(text: str) -> str:
+    if not text.startswith(("https://", "http://")) or len(text.split("//", 1)[1].strip("/")) == 0:
+        raise argparse.ArgumentTypeError(f"expected an address starting with https:// or http://, found {text!r}")
+    return text.rstrip("/") + "/"
 
 
 def _report_problems(problems) -> None:
@@ -155,7 +171,8 @@ def cmd_check(args) -> int:
 def cmd_build(args) -> int:
     from .build import build
 
-    summary = build(Path(args.specs), Path(args.output), clean=args.clean, history=not args.no_history)
+    summary = build(Path(args.specs), Path(args.output), clean=args.clean, history=not args.no_history,
+                    site_url=args.site_url)
     for w in summary.warnings:
         print(w.format(), file=sys.stderr)
     out = args.output.rstrip("/") + "/"
@@ -201,6 +218,12 @@ def cmd_schema(args) -> int:
     return EXIT_PASS
 
 
+def cmd_serve(args) -> int:
+    from .serve import serve
+
+    return serve(Path(args.specs), Path(args.output), args.port, args.interval, history=not args.no_history)
+
+
 def cmd_new(args) -> int:
     from .starter import write_starter
 
@@ -213,8 +236,8 @@ def main(argv: list[str] | None = None) -> int:
 
     args = _parser().parse_args(argv)
     try:
-        return {"build": cmd_build, "check": cmd_check, "diff": cmd_diff, "new": cmd_new,
-                "schema": cmd_schema}[args.command](args)
+        return {"build": cmd_build, "check": cmd_check, "diff": cmd_diff, "new": cmd_new, "schema": cmd_schema,
+                "serve": cmd_serve}[args.command](args)
     except InputError as e:
         _report_problems(e.problems)
         return EXIT_INPUT

@@ -16,11 +16,11 @@ GOLDEN = ROOT / "tests" / "golden"
 
 
 def golden_files(site: Path) -> dict[str, bytes]:
-    """The part of a built site kept as golden output: pages and results, not SVG
+    """The part of a built site kept as golden output: pages, scripts, results and figure data, not SVG
     (whose bytes follow the installed matplotlib's version)."""
     out = {}
     for p in sorted(site.rglob("*")):
-        if p.is_file() and p.suffix in (".html", ".json", ".css"):
+        if p.is_file() and p.suffix in (".html", ".json", ".csv", ".css", ".js"):
             out[p.relative_to(site).as_posix()] = p.read_bytes()
     return out
 

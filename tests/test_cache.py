@@ -4,13 +4,15 @@ from __future__ import annotations
 
 import os
 import shutil
+import subprocess
+import sys
 
 import pytest
 
 from generator import cache as C
 from generator.build import build
 
-from .conftest import DEMO_SPECS
+from .conftest import DEMO_SPECS, ROOT
 
 PANEL = """\
 spec: 1
@@ -222,3 +224,39 @@ def test_the_key_changes_with_the_bytes_of_a_measurement_file(measured):
     key = C.spec_key(m, by_id)
     m.measurement_digests = ["0" * 64]
     assert C.spec_key(m, by_id) != key
+
+
+def test_a_cached_spec_brings_back_each_diagram_with_its_numbers_and_the_page(library, tmp_path):
+    out = tmp_path / "site"
+    evaluated = build(library.dir, out).evaluated
+    by_id = {e.spec.id: e.spec for e in evaluated}
+    files = C.Cache(C.cache_dir_for(out)).get(C.spec_key(by_id["a"], by_id))
+    assert sorted(files) == ["index.html"] + [f"{k}.{ext}" for k in ("uv", "white", "xy")
+                                              for ext in ("csv", "json", "svg")]
+    site = files_of(out)
+    assert all(files[name] == site[f"a/{name}"] for name in files)
+
+
+def test_site_url_and_the_reload_script_are_part_of_the_key(library, tmp_path):
+    out, url = tmp_path / "site", "https://specs.example.org/colour/"
+    build(library.dir, out)
+    assert build(library.dir, out, site_url=url).reused == 0
+    page = (out / "a" / "index.html").read_text(encoding="utf-8")
+    assert f'<link rel="canonical" href="{url}a/index.html">' in page
+    assert build(library.dir, out, site_url=url).reused == 4
+    assert build(library.dir, out, reload=True).reused == 0
+    assert '<script src="../static/reload.js"></script>' in (out / "a" / "index.html").read_text(encoding="utf-8")
+    assert build(library.dir, out, reload=True).reused == 4
+    build(library.dir, tmp_path / "full", incremental=False, reload=True)
+    assert files_of(out) == files_of(tmp_path / "full")
+
+
+def test_a_build_that_reuses_every_page_does_not_import_matplotlib(library, tmp_path):
+    out = tmp_path / "site"
+    build(library.dir, out)
+    code = ("import sys; from pathlib import Path; from generator.build import build; "
+            "s = build(Path(sys.argv[1]), Path(sys.argv[2])); print('matplotlib' in sys.modules, s.reused)")
+    env = {**os.environ, "PYTHONPATH": str(ROOT)}
+    r = subprocess.run([sys.executable, "-c", code, "specs", "site"], cwd=tmp_path, env=env,
+                       capture_output=True, text=True, timeout=120)
+    assert r.stdout.split() == ["False", "4"], r.stderr

@@ -57,10 +57,11 @@ def test_the_page_lists_the_history_and_two_builds_agree(repo, tmp_path):
     a = build(repo / "specs", tmp_path / "a", history=True)
     build(repo / "specs", tmp_path / "b", history=True, incremental=False)
     page = (tmp_path / "a" / "corvinta-atlas-27-studio" / "index.html").read_text(encoding="utf-8")
-    section = page.split('<section class="history">', 1)[1].split("</section>", 1)[0]
+    section = page.split('<section id="history" class="history"', 1)[1].split("</section>", 1)[0]
     assert "<td>D</td>" in section and "<td>2026-04-15</td>" in section
     assert "revision C → D; white.tolerance.delta_uv 0.004 → 0.005" in section
     assert section.index("2026-04-15") < section.index("2026-03-01")
+    assert '<a href="#history">History</a>' in page  # in the page's table of contents
     assert page == (tmp_path / "b" / "corvinta-atlas-27-studio" / "index.html").read_text(encoding="utf-8")
     assert a.reused == 0
 

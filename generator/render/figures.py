@@ -6,18 +6,22 @@ returns the SVG text. The caller decides where it goes.
 from __future__ import annotations
 
 import io
+import re
 from dataclasses import dataclass
+from functools import cache
 
 import matplotlib
 
 matplotlib.use("Agg")
 import matplotlib.pyplot as plt  # noqa: E402
 import numpy as np  # noqa: E402
+from matplotlib.patches import Polygon  # noqa: E402
 
 from ..colour.cct import uv_from_cct_duv  # noqa: E402
 from ..colour.convert import uv1960_to_uv_prime, uv1960_to_xy, uv_prime_to_xy, xy_to_uv_prime  # noqa: E402
 from ..colour.planck import planck_uv  # noqa: E402
 from ..colour.spectral import spectral_locus_xy  # noqa: E402
+from .swatch import xy_to_preview_rgb  # noqa: E402
 
 matplotlib.rcParams.update({
     "svg.hashsalt": "colourspec",
@@ -62,17 +66,49 @@ def _closed(p):
     return np.vstack([p, p[:1]])
 
 
-def chromaticity_diagram(layer: Layer, diagram: str):
-    """The full diagram in CIE 1931 xy (``diagram='xy'``) or CIE 1976 u'v' (``'uv'``)."""
-    fig, ax = plt.subplots(figsize=(5.6, 5.6))
-    wl, locus = spectral_locus_xy(layer.observer)
+# Diagram frames, fixed so that figures need no "tight" layout pass (it draws everything twice).
+_FRAME = {"xy": dict(xlim=(-0.04, 0.8), ylim=(-0.02, 0.9), xlabel="x", ylabel="y"),
+          "uv": dict(xlim=(-0.04, 0.66), ylim=(-0.02, 0.64), xlabel="u'", ylabel="v'")}
+FULL_SIZE, FULL_AXES = (5.6, 5.9), (0.11, 0.1, 0.86, 0.85)
+FILL_NOTE = "Fill: approximate colours (sRGB preview), not measured values."
+
+
+@cache
+def locus_fill(diagram: str, n: int = 128) -> np.ndarray:
+    """An (n, n, 3) sRGB preview of chromaticities over the diagram's frame (rows from the
+    bottom): each point at equal luminance, converted to linear sRGB (IEC 61966-2-1 matrix),
+    negative channels clipped (out of gamut), scaled to the brightest channel, encoded and
+    lightened halfway to white so that lines on it stay legible. Only an impression of the
+    colours: the diagram clips it to the spectral locus. Computed once per diagram."""
+    f = _FRAME[diagram]
+    xs = np.linspace(*f["xlim"], n)
+    ys = np.linspace(*f["ylim"], n)
+    gx, gy = np.meshgrid(xs, ys)
+    pts = np.stack([gx, gy], axis=-1)
+    xy = pts if diagram == "xy" else uv_prime_to_xy(pts)
+    rgb = 0.5 * xy_to_preview_rgb(xy) + 0.5
+    return np.round(rgb * 255).astype(np.uint8)
+
+
+def _frame(diagram: str, observer: str, fill: bool):
+    """The static layers of a full diagram: locus (filled or neutral), wavelength labels,
+    Planckian locus, axes and grid."""
+    fig = plt.figure(figsize=FULL_SIZE)
+    ax = fig.add_axes(FULL_AXES)
+    wl, locus = spectral_locus_xy(observer)
     loc = _to(diagram, locus)
-    ax.fill(loc[:, 0], loc[:, 1], color="#f4f4f4", zorder=0)
+    f = _FRAME[diagram]
+    if fill:
+        im = ax.imshow(locus_fill(diagram), origin="lower", interpolation="none",
+                       extent=(*f["xlim"], *f["ylim"]), zorder=0)
+        im.set_clip_path(Polygon(loc, closed=True, transform=ax.transData))
+    else:
+        ax.fill(loc[:, 0], loc[:, 1], color="#f4f4f4", zorder=0)
     ax.plot(*_closed(loc).T, color=PALETTE["locus"], lw=0.9, zorder=2, label="spectral locus")
+    c = loc.mean(axis=0)
     for w in LOCUS_LABELS:
         i = int(np.argmin(np.abs(wl - w)))
         p = loc[i]
-        c = loc.mean(axis=0)
         d = (p - c) / max(np.linalg.norm(p - c), 1e-9)
         ax.plot(*np.array([p, p + 0.012 * d]).T, color=PALETTE["locus"], lw=0.6)
         ax.text(*(p + 0.03 * d), f"{w}", ha="center", va="center", fontsize=7, color="#444444")
@@ -80,14 +116,91 @@ def chromaticity_diagram(layer: Layer, diagram: str):
     pl = uv1960_to_uv_prime(planck_uv(T))
     pl = pl if diagram == "uv" else uv_prime_to_xy(pl)
     ax.plot(*pl.T, color=PALETTE["planck"], lw=0.8, zorder=3, label="Planckian locus")
+    ax.set(**f)
+    ax.set_aspect("equal")
+    ax.grid(color=PALETTE["grid"], lw=0.4)
+    if fill:
+        fig.text(0.11, 0.012, FILL_NOTE, fontsize=7,
+                 color="#444444")
+    return fig, ax
+
+
+@cache
+def _static_svg(diagram: str, observer: str, fill: bool) -> str:
+    """The static layers saved once per diagram, observer and fill: the text-heavy part
+    (ticks, wavelength labels) that would otherwise be laid out again for every spec."""
+    fig, _ = _frame(diagram, observer, fill)
+    buf = io.StringIO()
+    fig.savefig(buf, format="svg", metadata={"Date": None, "Creator": None})
+    plt.close(fig)
+    return buf.getvalue()
+
+
+_OVERLAYS: dict = {}
+
+
+def _overlay(diagram: str):
+    """A transparent figure with the frame's geometry and no axis decorations, reused for
+    every spec's own layers."""
+    if diagram not in _OVERLAYS:
+        fig = plt.figure(figsize=FULL_SIZE)
+        fig.patch.set_alpha(0)
+        ax = fig.add_axes(FULL_AXES)
+        ax.set(**_FRAME[diagram])
+        ax.set_aspect("equal")
+        ax.set_axis_off()
+        _OVERLAYS[diagram] = (fig, ax)
+    return _OVERLAYS[diagram]
+
+
+class _Drawn:
+    """Artists added to a reused overlay for one spec; removed once its SVG is saved."""
+
+    def __init__(self, fig, ax, base_svg: str):
+        self.fig, self.ax, self.base_svg = fig, ax, base_svg
+        self.base = (list(ax.lines), list(ax.texts), list(ax.patches), list(ax.collections))
+
+    def clear(self):
+        ax = self.ax
+        for group, base in zip((ax.lines, ax.texts, ax.patches, ax.collections), self.base, strict=True):
+            for a in [a for a in group if a not in base]:
+                a.remove()
+        if ax.get_legend() is not None:
+            ax.get_legend().remove()
+        for a in list(self.fig.legends) + list(self.fig.texts):
+            a.remove()
+
+
+_ID = re.compile(r'(id="|url\(#|xlink:href="#)([A-Za-z_][\w.-]*)')
+
+
+def _compose(base: str, overlay: str) -> str:
+    """Put the overlay's drawing on top of the base SVG (same size and axes geometry); the
+    overlay's ids are prefixed so that none collides with the base's."""
+    overlay = _ID.sub(lambda m: m.group(1) + "o-" + m.group(2), overlay)
+    body = overlay[re.search(r"<svg\b[^>]*>", overlay).end(): overlay.rindex("</svg>")]
+    body = re.sub(r"<metadata>.*?</metadata>", "", body, flags=re.S)
+    return base[: base.rindex("</svg>")] + body.strip("\n") + "\n</svg>\n"
+
+
+def chromaticity_diagram(layer: Layer, diagram: str, fill: bool = True):
+    """The full diagram in CIE 1931 xy (``diagram='xy'``) or CIE 1976 u'v' (``'uv'``).
+
+    The static layers (locus, its fill and wavelength labels, Planckian locus, axes) are
+    drawn once (``_static_svg``); this draws the spec's layers on a transparent overlay
+    of the same geometry, and ``save_svg`` composes the two. Call ``save_svg`` on the
+    result before drawing the next diagram of the same kind."""
+    fig, ax = _overlay(diagram)
+    fig._colourspec_drawn = _Drawn(fig, ax, _static_svg(diagram, layer.observer, fill))
     for i, (title, hull) in enumerate(layer.references):
         colour, dash = REFERENCE_STYLES[i % len(REFERENCE_STYLES)]
         ax.plot(*_closed(_to(diagram, hull)).T, color=colour, ls=dash, lw=1.1, zorder=4, label=title)
     if layer.gamut_xy is not None:
         g = _to(diagram, layer.gamut_xy)
         ax.plot(*_closed(g).T, color=PALETTE["gamut"], lw=1.8, zorder=5, label="spec gamut")
-    for label, poly in layer.tolerances:
-        ax.plot(*_closed(_to(diagram, poly)).T, color=PALETTE["tolerance"], lw=0.8, zorder=6)
+    for i, (_label, poly) in enumerate(layer.tolerances):
+        ax.plot(*_closed(_to(diagram, poly)).T, color=PALETTE["tolerance"], lw=0.8, zorder=6,
+                label="tolerance regions (to scale)" if i == 0 else "_nolegend_")
     for name, xy in layer.primaries:
         p = _to(diagram, xy)
         ax.plot(*p, marker="+", color=PALETTE["target"], ms=8, zorder=7)
@@ -96,15 +209,18 @@ def chromaticity_diagram(layer: Layer, diagram: str):
         ax.plot(*_to(diagram, layer.white_xy), marker="*", color=PALETTE["target"], ms=9, zorder=7,
                 label="white target", ls="none")
     _units(ax, layer.units, lambda xy: _to(diagram, xy))
-    if diagram == "xy":
-        ax.set(xlim=(-0.04, 0.8), ylim=(-0.02, 0.9), xlabel="x", ylabel="y")
-    else:
-        ax.set(xlim=(-0.04, 0.66), ylim=(-0.02, 0.64), xlabel="u'", ylabel="v'")
-    ax.set_aspect("equal")
-    ax.grid(color=PALETTE["grid"], lw=0.4)
-    ax.set_title(layer.title, fontsize=10)
-    ax.legend(loc="upper right" if diagram == "xy" else "lower right", fontsize=7, frameon=True)
+    fig.text(FULL_AXES[0] + FULL_AXES[2] / 2, 0.975, layer.title, fontsize=10, ha="center", va="top")
+    ax.legend(handles=_static_handles() + ax.get_legend_handles_labels()[0],
+              loc="upper right" if diagram == "xy" else "lower right", fontsize=7, frameon=True,
+              framealpha=0.92)
     return fig, ax
+
+
+def _static_handles():
+    from matplotlib.lines import Line2D
+
+    return [Line2D([], [], color=PALETTE["locus"], lw=0.9, label="spectral locus"),
+            Line2D([], [], color=PALETTE["planck"], lw=0.8, label="Planckian locus")]
 
 
 def _units(ax, units, tf):
@@ -117,39 +233,97 @@ def _units(ax, units, tf):
                     zorder=9, label=f"unit: {verdict}")
 
 
+TOLERANCE_DASHES = ("-", (0, (4, 2)), (0, (1, 1.5)))
+ISOTHERMS_K = (2000, 2500, 2700, 3000, 3500, 4000, 4500, 5000, 5700, 6500, 7500, 9300, 12000, 20000)
+DUV_LINES = (-0.02, -0.01, -0.005, 0.005, 0.01, 0.02)
+_LABEL_BOX = {"boxstyle": "round,pad=0.15", "fc": "white", "ec": "none", "alpha": 0.85}
+
+
+@cache
+def _white_lines():
+    """Planckian locus, lines of constant Duv and isotherms in u'v': the same for every
+    close-up, and costly (each point integrates Planck's law over the observer)."""
+    T = np.geomspace(1000, 100000, 400)
+    duv = {d: uv1960_to_uv_prime(uv_from_cct_duv(T, d)) for d in DUV_LINES}
+    iso = {t: uv1960_to_uv_prime(uv_from_cct_duv(np.full(41, float(t)), np.linspace(-0.03, 0.03, 41)))
+           for t in ISOTHERMS_K}
+    return uv1960_to_uv_prime(planck_uv(T)), duv, iso
+
+
+_WHITE: list = []
+
+
+def _white_figure():
+    """One figure reused for every close-up (its axis and tick objects are kept; each
+    spec's artists are removed after saving)."""
+    if not _WHITE:
+        fig = plt.figure(figsize=(5.6, 4.9))
+        ax = fig.add_axes((0.13, 0.25, 0.84, 0.69))
+        ax.set_aspect("equal")
+        ax.grid(color=PALETTE["grid"], lw=0.4)
+        ax.locator_params(nbins=6)
+        _WHITE.append((fig, ax))
+    return _WHITE[0]
+
+
 def white_closeup(layer: Layer, span: float = 0.02):
     """The white target in CIE 1976 u'v' with the Planckian locus, isotherms and lines of
-    constant Duv (CIE 1960 uv distances, drawn in u'v')."""
-    fig, ax = plt.subplots(figsize=(5.6, 4.6))
+    constant Duv (CIE 1960 uv distances, drawn in u'v'). Lines are labelled inside the
+    frame; the legend sits below it so that it covers nothing."""
+    fig, ax = _white_figure()
+    fig._colourspec_drawn = _Drawn(fig, ax, "")
     w = xy_to_uv_prime(np.array(layer.white_xy))
     pts = [w] + [xy_to_uv_prime(np.array(xy)) for _, xy, _ in layer.units]
     for _, poly in layer.tolerances:
         pts += list(xy_to_uv_prime(np.asarray(poly)))
     pts = np.array(pts)
     half = max(span, float(np.max(np.abs(pts - w))) * 1.25)
-    T = np.geomspace(1000, 100000, 400)
-    for duv in (-0.02, -0.01, -0.005, 0.005, 0.01, 0.02):
-        line = uv1960_to_uv_prime(uv_from_cct_duv(T, duv))
-        ax.plot(*line.T, color=PALETTE["isotherm"], lw=0.5, ls=":", zorder=1)
-        j = np.argmin(np.hypot(*(line - (w + [half * 0.8, 0])).T))
-        ax.text(*line[j], f"Duv {duv:+.3f}", fontsize=6, color="#666666", zorder=1, clip_on=True)
-    pl = uv1960_to_uv_prime(planck_uv(T))
-    ax.plot(*pl.T, color=PALETTE["planck"], lw=1.0, label="Planckian locus", zorder=2)
-    for t in (2000, 2500, 2700, 3000, 3500, 4000, 4500, 5000, 5700, 6500, 7500, 9300, 12000, 20000):
-        iso = uv1960_to_uv_prime(uv_from_cct_duv(np.full(2, float(t)), np.array([-0.03, 0.03])))
-        ax.plot(*iso.T, color=PALETTE["isotherm"], lw=0.6, zorder=1)
-        ax.text(*iso[1], f"{t} K", fontsize=6, color="#555555", ha="center", va="bottom", clip_on=True)
-    for label, poly in layer.tolerances:
-        ax.plot(*_closed(xy_to_uv_prime(np.asarray(poly))).T, color=PALETTE["tolerance"], lw=1.0,
-                zorder=3, label=label)
+    x0, x1, y0, y1 = w[0] - half, w[0] + half, w[1] - half * 0.8, w[1] + half * 0.8
+
+    def within(line, m):
+        mx, my = m * 2 * half, m * 1.6 * half
+        return ((line[:, 0] > x0 + mx) & (line[:, 0] < x1 - mx) & (line[:, 1] > y0 + my) & (line[:, 1] < y1 - my))
+
+    def visible_part(line):
+        """The line's points in the frame and one beyond on each side (None if it misses it)."""
+        keep = within(line, -0.02)
+        if not keep.any():
+            return None
+        keep = keep | np.roll(keep, 1) | np.roll(keep, -1)
+        return line[keep]
+
+    pl, duv_lines, isotherms = _white_lines()
+    for duv, line in duv_lines.items():
+        part = visible_part(line)
+        if part is None:
+            continue
+        ax.plot(*part.T, color=PALETTE["isotherm"], lw=0.7, ls=(0, (2, 2)), zorder=1)
+        vis = line[within(line, 0.04)]
+        if len(vis):  # label where the line leaves the frame at the bottom
+            p = vis[np.argmin(vis[:, 1])]
+            ax.text(*p, f"Duv {duv:+.3f}", fontsize=6.5, color="#333333", ha="center", va="bottom",
+                    zorder=4, bbox=_LABEL_BOX)
+    ax.plot(*visible_part(pl).T if visible_part(pl) is not None else ([], []), color=PALETTE["planck"], lw=1.2,
+            label="Planckian locus (Duv 0)", zorder=2)
+    label = "isotherms (CCT) and lines of constant Duv"
+    for t, iso in isotherms.items():
+        if visible_part(iso) is None:
+            continue
+        ax.plot(*iso.T, color=PALETTE["isotherm"], lw=0.7, zorder=1, label=label)
+        label = "_nolegend_"
+        vis = iso[within(iso, 0.04)]
+        if len(vis):  # label at the isotherm's highest visible point
+            p = vis[np.argmax(vis[:, 1])]
+            ax.text(*p, f"{t} K", fontsize=6.5, color="#333333", ha="center", va="top", zorder=4,
+                    bbox=_LABEL_BOX)
+    for i, (label, poly) in enumerate(layer.tolerances):
+        ax.plot(*_closed(xy_to_uv_prime(np.asarray(poly))).T, color=PALETTE["tolerance"], lw=1.1,
+                ls=TOLERANCE_DASHES[i % len(TOLERANCE_DASHES)], zorder=3, label=f"{label} (to scale)")
     ax.plot(*w, marker="*", color=PALETTE["target"], ms=11, ls="none", zorder=5, label="white target")
     _units(ax, layer.units, lambda xy: xy_to_uv_prime(np.array(xy)))
-    ax.set(xlim=(w[0] - half, w[0] + half), ylim=(w[1] - half * 0.8, w[1] + half * 0.8),
-           xlabel="u'", ylabel="v'")
-    ax.set_aspect("equal")
-    ax.grid(color=PALETTE["grid"], lw=0.4)
-    ax.set_title(layer.title, fontsize=10)
-    ax.legend(loc="upper left", fontsize=7, frameon=True)
+    ax.set(xlim=(x0, x1), ylim=(y0, y1), xlabel="u'", ylabel="v'")
+    fig.text(0.55, 0.985, layer.title, fontsize=10, ha="center", va="top")
+    fig.legend(*ax.get_legend_handles_labels(), loc="lower center", ncols=2, fontsize=7, frameon=False)
     return fig, ax
 
 
@@ -177,14 +351,47 @@ def histogram(values, lo, hi, guard, title: str, xlabel: str, bins: int = 30):
     ax.set_title(title, fontsize=9)
     ax.grid(color=PALETTE["grid"], lw=0.4)
     ax.legend(fontsize=6.5, frameon=True, loc="best")
+    fig.tight_layout()
     return fig, ax
 
 
-def save_svg(fig) -> str:
+def _xml(text: str) -> str:
+    return text.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;").replace('"', "&quot;")
+
+
+_CLIP_ID = re.compile(r'<clipPath id="((?:o-)?p[0-9a-f]{10})"')
+
+
+def _stable_ids(svg: str) -> str:
+    """Clip-path ids numbered in order of definition. matplotlib derives the id of a clip
+    path set on an artist from the object's memory address, which differs between runs."""
+    for n, old in enumerate(dict.fromkeys(_CLIP_ID.findall(svg)), start=1):
+        svg = svg.replace(f'id="{old}"', f'id="clip{n}"').replace(f"url(#{old})", f"url(#clip{n})")
+    return svg
+
+
+def save_svg(fig, title: str = "", desc: str = "") -> str:
+    """The figure as SVG text, with a <title> and <desc> for screen readers when given. A
+    figure drawn on a cached frame has its spec's layers removed afterwards."""
     buf = io.StringIO()
-    fig.savefig(buf, format="svg", metadata={"Date": None, "Creator": None}, bbox_inches="tight")
-    plt.close(fig)
-    return buf.getvalue()
+    fig.savefig(buf, format="svg", metadata={"Date": None, "Creator": None})
+    svg = buf.getvalue()
+    drawn = getattr(fig, "_colourspec_drawn", None)
+    if drawn is not None:
+        drawn.clear()
+        fig._colourspec_drawn = None
+        if drawn.base_svg:
+            svg = _compose(drawn.base_svg, svg)
+    else:
+        plt.close(fig)
+    svg = _stable_ids(svg)
+    if title or desc:
+        m = re.search(r"<svg\b[^>]*>", svg)
+        head = svg[: m.end()]
+        head = head[:-1] + ' role="img" aria-labelledby="fig-title fig-desc">'
+        svg = (head + f'\n <title id="fig-title">{_xml(title)}</title>\n <desc id="fig-desc">{_xml(desc)}</desc>'
+               + svg[m.end():])
+    return svg
 
 
 def uv_circle_xy(centre_xy, radius_uv, n: int = 72):

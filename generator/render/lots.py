@@ -73,7 +73,7 @@ def _diagrams(e, members, prefix: str, what: str, full: bool = True) -> list[dic
     """A lot's diagrams; none for lots smaller than HISTOGRAM_MIN_UNITS, whose units the
     spec page's diagrams already show legibly."""
     from . import figures as F  # imported only when a figure is drawn (matplotlib is slow to load)
-    from .site import layer_for
+    from .diagrams import layer_for
 
     out = []
     spec = e.spec
@@ -97,8 +97,10 @@ def _units_view(a, members):
             for i in shown.tolist()]
 
 
-def lot_pages(e, env, decision: str):
+def lot_pages(e, env, decision: str, site_url: str | None = None, reload: bool = False):
     """[(path, bytes)] of every lot page and supplier page of a spec, figures included."""
+    from .site import canonical
+
     a = e.assessment
     if a.table is None or not len(a.table):
         return []
@@ -116,7 +118,7 @@ def lot_pages(e, env, decision: str):
                "suppliers": [(s, sup_names.get(s)) for s in lot["suppliers"]],
                "stats": [_stat_view(s) for s in lot["statistics"]], "figures": figs, "histograms": hists,
                "units": _units_view(a, members), "n_units": int(members.size), "root": "../../",
-               "lots": []}
+               "lots": [], "canonical": canonical(site_url, f"{e.spec.id}/lots/{name}.html"), "reload": reload}
         files.append((f"lots/{name}.html", env.get_template("lot.html").render(**ctx)))
         files += [(f"lots/{f['file']}", f["svg"]) for f in figs + hists]
     for sup in a.suppliers:
@@ -128,7 +130,8 @@ def lot_pages(e, env, decision: str):
         ctx = {"spec": e.spec, "what": sup["supplier"], "kind": "supplier", "entry": sup, "decision": decision,
                "verdict": sup["verdict"], "symbol": SYMBOL[sup["verdict"]], "suppliers": [],
                "stats": [], "figures": figs, "histograms": [], "units": _units_view(a, members),
-               "n_units": int(members.size), "root": "../../", "lots": lots}
+               "n_units": int(members.size), "root": "../../", "lots": lots,
+               "canonical": canonical(site_url, f"{e.spec.id}/suppliers/{name}.html"), "reload": reload}
         files.append((f"suppliers/{name}.html", env.get_template("lot.html").render(**ctx)))
         files += [(f"suppliers/{f['file']}", f["svg"]) for f in figs]
     return files

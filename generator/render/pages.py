@@ -129,6 +129,12 @@ def methods(spec) -> list[tuple[str, str]]:
                            "mean − LSL) / 3s for two-sided limits, the one side for one-sided limits; a radial "
                            "limit (Δu'v' ≤ r, an ellipse, a region) is taken as one-sided upper: Cpk = (r − mean) / 3s "
                            "(Montgomery, Introduction to Statistical Quality Control, §8.3)"),
+        ("Tolerance regions", "drawn to scale in the diagrams: Δu'v' circles in CIE 1976 u'v', boxes, ellipses "
+                              "and regions in CIE 1931 xy, CCT × Duv quadrangles bounded by isotherms and lines "
+                              "of constant Duv"),
+        ("Diagram fill and swatches", "approximate sRGB previews (IEC 61966-2-1:1999 matrix and encoding, "
+                                      "out-of-gamut colours clipped); they show where colours lie, not how a "
+                                      "product looks, and take no part in any verdict"),
     ]
 
 

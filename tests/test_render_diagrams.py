@@ -1,0 +1,161 @@
+"""What the diagrams draw and the numbers published beside them (render/figures.py, render/diagrams.py)."""
+from __future__ import annotations
+
+import csv
+import io
+import json
+import re
+from xml.etree import ElementTree as ET
+
+import numpy as np
+
+from generator.render import figures as F
+from generator.render.swatch import swatch_hex, xy_to_preview_rgb
+
+SVG_NS = "{http://www.w3.org/2000/svg}"
+
+
+def _layer(units=()):
+    prim = [("red", (0.64, 0.33)), ("green", (0.30, 0.60)), ("blue", (0.15, 0.06))]
+    return F.Layer("test diagram", np.array([p for _, p in prim]), prim, (0.3127, 0.3290),
+                   [("sRGB", np.array([p for _, p in prim]))], [("red: box", F.box_xy((0.64, 0.33), 0.01, 0.01))],
+                   list(units))
+
+
+def test_full_diagram_embeds_the_approximate_colour_fill_clipped_to_the_locus_and_says_so():
+    fig, _ = F.chromaticity_diagram(_layer(), "xy")
+    svg = F.save_svg(fig)
+    root = ET.fromstring(svg)
+    images = root.findall(f".//{SVG_NS}image")
+    assert len(images) == 1
+    clip = [g for g in root.iter() if g.find(f"{SVG_NS}image") is not None][0]
+    assert "clip-path" in clip.attrib
+    assert "approximate colours (sRGB preview)" in svg
+
+
+def test_neutral_diagram_by_choice_has_no_colour_fill():
+    fig, _ = F.chromaticity_diagram(_layer(), "uv", fill=False)
+    svg = F.save_svg(fig)
+    assert "<image" not in svg and "sRGB preview" not in svg
+
+
+def test_overlay_layers_are_removed_after_saving_so_the_next_diagram_starts_clean():
+    fig, _ = F.chromaticity_diagram(_layer([("U1 red", (0.63, 0.33), "fail")]), "xy")
+    first = F.save_svg(fig)
+    fig, _ = F.chromaticity_diagram(_layer(), "xy")
+    second = F.save_svg(fig)
+    assert "unit: fail" in first and "unit: fail" not in second
+    assert second.count("<svg") == 1 and ET.fromstring(second) is not None
+
+
+def test_composed_svg_ids_are_unique():
+    fig, _ = F.chromaticity_diagram(_layer([("U1 red", (0.63, 0.33), "pass")]), "uv")
+    svg = F.save_svg(fig, "t", "d")
+    ids = re.findall(r'\bid="([^"]+)"', svg)
+    assert len(ids) == len(set(ids))
+
+
+def test_saved_svg_carries_title_and_description_for_screen_readers():
+    fig, _ = F.chromaticity_diagram(_layer(), "xy")
+    svg = F.save_svg(fig, "CIE 1931 xy <diagram>", "three primaries & a white")
+    root = ET.fromstring(svg)
+    assert root.find(f"{SVG_NS}title").text == "CIE 1931 xy <diagram>"
+    assert root.find(f"{SVG_NS}desc").text == "three primaries & a white"
+    assert root.attrib["role"] == "img"
+
+
+def test_units_differ_by_marker_shape_as_well_as_colour():
+    _, ax = F.chromaticity_diagram(_layer([("A", (0.64, 0.33), "pass"), ("B", (0.3, 0.6), "fail"),
+                                           ("C", (0.15, 0.06), "indeterminate")]), "xy")
+    marks = {ln.get_label(): (ln.get_marker(), ln.get_markeredgecolor()) for ln in ax.lines
+             if ln.get_label().startswith("unit:")}
+    F.save_svg(ax.figure)
+    assert {m for m, _ in marks.values()} == {"o", "X", "D"}
+    assert len({c for _, c in marks.values()}) == 3
+
+
+def test_white_closeup_labels_isotherms_and_constant_duv_lines_inside_its_frame():
+    layer = F.Layer("w", None, [], (0.3127, 0.3290), [], [("white: circle", F.uv_circle_xy((0.3127, 0.3290), 0.004))],
+                    [("U1 white", (0.3131, 0.3288), "pass")])
+    fig, ax = F.white_closeup(layer)
+    texts = [t.get_text() for t in ax.texts]
+    x0, x1 = ax.get_xlim()
+    y0, y1 = ax.get_ylim()
+    inside = all(x0 <= t.get_position()[0] <= x1 and y0 <= t.get_position()[1] <= y1 for t in ax.texts)
+    below = len(fig.legends) == 1 and ax.get_legend() is None  # the legend sits below the frame, covering nothing
+    svg = F.save_svg(fig)
+    assert "6500 K" in texts and any(t.startswith("Duv +0.005") for t in texts)
+    assert inside and below
+    assert "white: circle (to scale)" in svg and "unit: pass" in svg
+
+
+def test_white_closeup_reuses_its_figure_without_keeping_the_last_specs_layers():
+    def layer(verdict):
+        return F.Layer("w", None, [], (0.3127, 0.3290), [], [], [("U1 white", (0.3131, 0.3288), verdict)])
+
+    first = F.save_svg(F.white_closeup(layer("fail"))[0])
+    second = F.save_svg(F.white_closeup(layer("pass"))[0])
+    assert "unit: fail" in first and "unit: fail" not in second and "unit: pass" in second
+
+
+def test_locus_fill_is_computed_once_and_neutral_at_d65():
+    a = F.locus_fill("xy")
+    assert F.locus_fill("xy") is a
+    assert a.dtype == np.uint8 and a.shape[2] == 3
+    r, g, b = xy_to_preview_rgb((0.3127, 0.3290))
+    assert max(r, g, b) - min(r, g, b) < 0.01
+
+
+def test_swatches_show_d65_as_white_and_srgb_red_as_red():
+    assert swatch_hex((0.3127, 0.3290)) == "#ffffff"
+    assert swatch_hex((0.64, 0.33)) == "#ff0000"
+    assert swatch_hex((float("nan"), 0.3)) == "#000000"
+
+
+def test_each_figure_publishes_the_points_it_drew_as_csv_and_json(demo_site, demo_results):
+    spec = next(s for s in demo_results["specs"] if s["id"] == "corvinta-atlas-27-studio")
+    folder = demo_site / spec["id"]
+    for which, (a, b) in (("xy", ("x", "y")), ("uv", ("u_prime", "v_prime")), ("white", ("u_prime", "v_prime"))):
+        rows = list(csv.DictReader(io.StringIO((folder / f"{which}.csv").read_text(encoding="utf-8"))))
+        doc = json.loads((folder / f"{which}.json").read_text(encoding="utf-8"))
+        assert doc["coordinates"] == [a, b]
+        assert [r["name"] for r in rows] == [p["name"] for p in doc["points"]]
+        for r, p in zip(rows, doc["points"], strict=True):
+            assert abs(float(r[a]) - p[a]) < 1e-6 and abs(float(r[b]) - p[b]) < 1e-6
+        units = {r["name"].split()[0]: r["verdict"] for r in rows if r["kind"] == "unit"}
+        assert units == {u["serial"]: u["verdict"] for u in spec["units"]}
+        assert doc["tolerances"] and all(len(t["outline"]) >= 4 for t in doc["tolerances"])
+    xy = json.loads((folder / "xy.json").read_text(encoding="utf-8"))
+    red = next(p for p in xy["points"] if p["kind"] == "target" and p["name"] == "red")
+    assert (red["x"], red["y"]) == (0.68, 0.32)
+
+
+def test_spec_page_shows_each_figures_numbers_in_a_table_beside_it(demo_site):
+    page = (demo_site / "corvinta-atlas-27-studio" / "index.html").read_text(encoding="utf-8")
+    for which in ("xy", "uv", "white"):
+        block = page[page.index(f'id="fig-{which}"'):]
+        block = block[: block.index('<div class="figure-pair"') if '<div class="figure-pair"' in block else None]
+        assert f'<img src="{which}.svg"' in block and "<table" in block
+        assert f'href="{which}.csv"' in block and f'href="{which}.json"' in block
+    assert "unit: AT27-0002 white" in page
+
+
+def test_an_unchanged_diagram_is_not_redrawn_and_a_changed_one_is(monkeypatch):
+    from generator.render import diagrams as D
+
+    calls = []
+    real = F.chromaticity_diagram
+    monkeypatch.setattr(F, "chromaticity_diagram", lambda *a, **k: calls.append(a) or real(*a, **k))
+    a = D._draw("xy", _layer([("U1 red", (0.63, 0.33), "pass")]), "memo test", "d")
+    b = D._draw("xy", _layer([("U1 red", (0.63, 0.33), "pass")]), "memo test", "d")
+    c = D._draw("xy", _layer([("U1 red", (0.63, 0.33), "fail")]), "memo test", "d")
+    assert a == b and a != c
+    assert len(calls) == 2
+
+
+def test_clip_path_ids_do_not_depend_on_where_objects_live_in_memory():
+    fig, _ = F.chromaticity_diagram(_layer(), "xy")
+    svg = F.save_svg(fig)
+    clip_ids = re.findall(r'<clipPath id="([^"]+)"', svg)
+    assert clip_ids == [f"clip{n}" for n in range(1, len(clip_ids) + 1)]
+    assert all(f"url(#{i})" in svg for i in clip_ids)
