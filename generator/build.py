@@ -74,12 +74,13 @@ def build(specs_path: Path, out: Path, *, clean: bool = False, incremental: bool
     its file. ``site_url`` (the site's public address) adds canonical links; ``reload``
     adds the live-preview script that ``colourspec serve`` uses."""
     from .cache import Cache, cache_dir_for
-    from .publish import publish
+    from .publish import check_output, publish
     from .render.site import render_site
 
     t0 = time.perf_counter()
     evaluated, warnings = evaluate(specs_path)
     results = results_of(evaluated)
+    check_output(out, protect=(specs_path,))  # before anything (the cache beside it) is written
     histories = None
     if history:
         from .history import spec_histories
@@ -88,7 +89,7 @@ def build(specs_path: Path, out: Path, *, clean: bool = False, incremental: bool
     cache = Cache(cache_dir_for(out), clean=clean) if incremental else None
     site, n_pages, n_figures = render_site(evaluated, results, cache, histories,
                                            site_url=site_url, reload=reload)
-    publish(site, out)
+    publish(site, out, protect=(specs_path,))
     if cache is not None:
         cache.prune()
     summary = Summary(evaluated, warnings, results, n_pages, n_figures, time.perf_counter() - t0)

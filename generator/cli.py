@@ -231,13 +231,22 @@ def cmd_new(args) -> int:
 
 
 def main(argv: list[str] | None = None) -> int:
-    from .publish import PublishError
+    from .publish import PublishError, Terminated, terminate_as_exception
+    from .spec.limits import LimitsError, limits
     from .spec.problems import InputError
 
     args = _parser().parse_args(argv)
     try:
-        return {"build": cmd_build, "check": cmd_check, "diff": cmd_diff, "new": cmd_new, "schema": cmd_schema,
-                "serve": cmd_serve}[args.command](args)
+        limits()  # a bad COLOURSPEC_MAX_* setting is a usage error, reported before any work
+        with terminate_as_exception():
+            return {"build": cmd_build, "check": cmd_check, "diff": cmd_diff, "new": cmd_new,
+                    "schema": cmd_schema, "serve": cmd_serve}[args.command](args)
+    except LimitsError as e:
+        print(f"colourspec: {e}", file=sys.stderr)
+        return EXIT_INPUT
+    except Terminated:
+        print("colourspec: terminated; nothing half-written was published", file=sys.stderr)
+        return 128 + 15
     except InputError as e:
         _report_problems(e.problems)
         return EXIT_INPUT

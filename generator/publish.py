@@ -1,19 +1,64 @@
 """Publish: write a whole site into a temporary folder beside the output, then swap it in.
 
-A failed build leaves the previous site untouched. The writer refuses paths outside
-the output folder and a second write to one path, and never replaces a folder that
-holds spec files.
+- Nothing is written outside the output folder: every path of a ``SiteFiles`` is a
+  plain relative path, checked when it is added.
+- The output folder is checked before anything is written: not the filesystem root,
+  not the home folder, not the specs folder nor a folder that holds it, not a folder
+  that holds spec files, and an existing folder is replaced only when it is empty or a
+  site this tool wrote (it carries the marker file ``MARKER``).
+- The swap is one ``renameat2(RENAME_EXCHANGE)`` on Linux, so the output is never
+  missing, not even for an instant; elsewhere (or on a filesystem without it) the old
+  site is moved aside and the new one moved in, and a build killed between the two
+  renames is repaired by the next build.
+- Builds into one output are serialised with a lock on the output's parent folder;
+  temporary folders left by a killed build are removed by the next build.
+- A SIGTERM while publishing (see ``terminate_as_exception``) removes the temporary
+  folder and leaves the previous site as it was.
 """
 from __future__ import annotations
 
+import contextlib
+import ctypes
+import ctypes.util
+import errno
+import fcntl
+import json
 import os
 import shutil
+import signal
+import sys
 import tempfile
 from pathlib import Path, PurePosixPath
+
+MARKER = ".colourspec-site"
+MARKER_TEXT = b"This folder is a site written by colourspec build; the next build replaces it whole.\n"
+SPEC_SUFFIXES = (".yaml", ".yml")
+_SCAN_LIMIT = 20_000  # entries looked at when asking whether a foreign folder holds specs
 
 
 class PublishError(Exception):
     pass
+
+
+class Terminated(BaseException):
+    """SIGTERM, raised as an exception so that clean-up code runs."""
+
+
+@contextlib.contextmanager
+def terminate_as_exception():
+    """While active, SIGTERM raises ``Terminated`` in the main thread."""
+    def handler(signum, frame):
+        raise Terminated()
+
+    try:
+        previous = signal.signal(signal.SIGTERM, handler)
+    except ValueError:  # not the main thread: leave signals alone
+        yield
+        return
+    try:
+        yield
+    finally:
+        signal.signal(signal.SIGTERM, previous)
 
 
 class SiteFiles:
@@ -24,38 +69,168 @@ class SiteFiles:
 
     def add(self, rel: str, content: str | bytes) -> None:
         p = PurePosixPath(rel)
-        if p.is_absolute() or ".." in p.parts or not p.parts or rel != str(p):
+        if (p.is_absolute() or ".." in p.parts or not p.parts or rel != str(p) or "\\" in rel
+                or any(ord(c) < 32 for c in rel)):
             raise PublishError(f"refusing to write outside the site: {rel!r}")
         if rel in self.files:
             raise PublishError(f"two outputs for one path: {rel}")
+        if rel == MARKER:
+            raise PublishError(f"{MARKER} is the publisher's own marker file")
         self.files[rel] = content.encode("utf-8") if isinstance(content, str) else content
 
 
-def _holds_specs(folder: Path) -> bool:
-    return any(p.suffix in (".yaml", ".yml") for p in folder.rglob("*") if p.is_file()) if folder.is_dir() else False
+def _holds_specs(folder: Path, limit: int | None) -> bool:
+    """Whether a folder (not following links) holds a spec file, looking at no more than
+    ``limit`` entries (the answer only chooses the message for a folder refused anyway)."""
+    seen = 0
+    for _, dirs, files in os.walk(folder):
+        if any(f.endswith(SPEC_SUFFIXES) for f in files):
+            return True
+        seen += len(dirs) + len(files)
+        if limit is not None and seen > limit:
+            return False
+    return False
 
 
-def publish(site: SiteFiles, out: Path) -> None:
-    out = out.resolve()
-    if out.exists() and not out.is_dir():
-        raise PublishError(f"{out.name} exists and is not a folder")
-    if out.exists() and _holds_specs(out) and not (out / "results.json").exists():
-        raise PublishError(f"refusing to replace {out.name}/: it holds spec files and is not a built site")
-    out.parent.mkdir(parents=True, exist_ok=True)
-    tmp = Path(tempfile.mkdtemp(prefix=f".{out.name}.new-", dir=out.parent))
+def _is_our_site(folder: Path) -> bool:
+    if (folder / MARKER).is_file():
+        return True
+    # a site written before the marker existed: our results.json and nothing else of note
     try:
-        for rel in sorted(site.files):
-            target = tmp / rel
-            target.parent.mkdir(parents=True, exist_ok=True)
-            target.write_bytes(site.files[rel])
-        old = None
-        if out.exists():
-            old = Path(tempfile.mkdtemp(prefix=f".{out.name}.old-", dir=out.parent))
-            os.rmdir(old)
-            os.replace(out, old)
-        os.replace(tmp, out)
-        if old is not None:
-            shutil.rmtree(old, ignore_errors=True)
-    except BaseException:
-        shutil.rmtree(tmp, ignore_errors=True)
-        raise
+        doc = json.loads((folder / "results.json").read_text(encoding="utf-8"))
+    except (OSError, ValueError):
+        return False
+    return (isinstance(doc, dict) and str(doc.get("format", "")).startswith("colourspec-results/")
+            and not (folder / ".git").exists())
+
+
+def _within(path: Path, folder: Path) -> bool:
+    return path == folder or folder in path.parents
+
+
+def check_output(out: Path, protect: tuple[Path, ...] = ()) -> Path:
+    """The output folder as an absolute real path, or PublishError saying why not."""
+    shown = str(out)
+    if not str(out) or any(ord(c) < 32 or ord(c) == 127 for c in str(out)):
+        raise PublishError(f"refusing the output folder {shown!r}: expected a folder name without control characters")
+    real = Path(os.path.realpath(out))
+    if real.parent == real:
+        raise PublishError(f"refusing to write the site to {shown}: the output must be a folder of its own, "
+                           "not the root of the filesystem")
+    with contextlib.suppress(RuntimeError, KeyError):
+        if real == Path.home().resolve():
+            raise PublishError(f"refusing to write the site to {shown}: that is the home folder")
+    for p in protect:
+        pr = Path(os.path.realpath(p))
+        if _within(pr, real):
+            raise PublishError(f"refusing to write the site to {shown}: it would replace the specs in {p}; "
+                               "choose a folder of its own, such as site_output/")
+    if real.exists() or real.is_symlink():
+        if not real.is_dir():
+            raise PublishError(f"refusing to write the site to {shown}: it exists and is not a folder")
+        if any(real.iterdir()):
+            ours = _is_our_site(real)  # our own site is looked through whole; anything else is refused
+            if _holds_specs(real, None if ours else _SCAN_LIMIT):
+                raise PublishError(f"refusing to replace {shown}: it holds spec files and is not a built site")
+            if not ours:
+                raise PublishError(f"refusing to replace {shown}: it is not empty and not a site written by "
+                                   f"colourspec (no {MARKER}); choose another folder or empty it yourself")
+    return real
+
+
+def _exchange(a: Path, b: Path) -> bool:
+    """Swap two paths atomically (Linux renameat2 RENAME_EXCHANGE); False if unsupported."""
+    if not sys.platform.startswith("linux"):
+        return False
+    libc = ctypes.CDLL(ctypes.util.find_library("c") or "libc.so.6", use_errno=True)
+    fn = getattr(libc, "renameat2", None)
+    if fn is None:
+        return False
+    AT_FDCWD, RENAME_EXCHANGE = -100, 2
+    fn.argtypes = [ctypes.c_int, ctypes.c_char_p, ctypes.c_int, ctypes.c_char_p, ctypes.c_uint]
+    if fn(AT_FDCWD, os.fsencode(a), AT_FDCWD, os.fsencode(b), RENAME_EXCHANGE) == 0:
+        return True
+    err = ctypes.get_errno()
+    if err in (errno.EINVAL, errno.ENOSYS, errno.ENOTSUP, errno.EOPNOTSUPP):
+        return False
+    raise OSError(err, os.strerror(err), str(a))
+
+
+def _swap_in(tmp: Path, out: Path) -> None:
+    if not out.exists():
+        os.rename(tmp, out)
+    elif _exchange(tmp, out):
+        shutil.rmtree(tmp, ignore_errors=True)  # tmp now holds the previous site
+    else:
+        old = tmp.with_name(tmp.name.replace(".new-", ".old-", 1))
+        os.rename(out, old)
+        os.rename(tmp, out)
+        shutil.rmtree(old, ignore_errors=True)
+
+
+@contextlib.contextmanager
+def _locked(folder: Path):
+    fd = os.open(folder, os.O_RDONLY)
+    try:
+        with contextlib.suppress(OSError):  # a filesystem without locks: build without one
+            fcntl.flock(fd, fcntl.LOCK_EX)
+        yield
+    finally:
+        os.close(fd)
+
+
+def _clean_stale(out: Path) -> None:
+    """Under the lock: temporary folders of killed builds go; a site moved aside by a build
+    killed between its two renames comes back."""
+    new, old = f".{out.name}.new-", f".{out.name}.old-"
+    leftovers = sorted(p for p in out.parent.iterdir() if p.name.startswith((new, old)))
+    for p in leftovers:
+        if p.is_dir() and not p.is_symlink():
+            if p.name.startswith(old) and not out.exists() and _is_our_site(p):
+                os.rename(p, out)
+            else:
+                shutil.rmtree(p, ignore_errors=True)
+
+
+def _source_date_epoch() -> int | None:
+    v = os.environ.get("SOURCE_DATE_EPOCH", "").strip()
+    return int(v) if v.isdigit() else None
+
+
+def publish(site: SiteFiles, out: Path, protect: tuple[Path, ...] = ()) -> Path:
+    """Write ``site`` to ``out`` in one swap; ``protect`` are paths (the specs) that the
+    output must not contain. Returns the real output path."""
+    real = check_output(out, protect)
+    try:
+        return _publish(site, out, real, protect)
+    except OSError as e:  # the disk, not the specs or the tool: say where and why
+        raise PublishError(f"cannot write the site to {out}: {e.strerror or e}"
+                           + (f" ({e.filename})" if e.filename else "")) from e
+
+
+def _publish(site: SiteFiles, out: Path, real: Path, protect: tuple[Path, ...]) -> Path:
+    real.parent.mkdir(parents=True, exist_ok=True)
+    epoch = _source_date_epoch()
+    with _locked(real.parent):
+        _clean_stale(real)
+        real = check_output(out, protect)  # again, now that no other build can change it
+        tmp = Path(tempfile.mkdtemp(prefix=f".{real.name}.new-", dir=real.parent))
+        try:
+            files = dict(site.files)
+            files[MARKER] = MARKER_TEXT
+            for rel in sorted(files):
+                target = tmp / rel
+                target.parent.mkdir(parents=True, exist_ok=True)
+                with open(target, "xb") as f:
+                    f.write(files[rel])
+            if epoch is not None:  # reproducible archives of the site: every mtime from SOURCE_DATE_EPOCH
+                for d, _, names in sorted(os.walk(tmp), reverse=True):
+                    for n in names:
+                        os.utime(os.path.join(d, n), (epoch, epoch))
+                    os.utime(d, (epoch, epoch))
+            os.chmod(tmp, 0o755)  # mkdtemp makes it private; a site is for reading
+            _swap_in(tmp, real)
+        except BaseException:
+            shutil.rmtree(tmp, ignore_errors=True)
+            raise
+    return real

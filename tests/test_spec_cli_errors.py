@@ -112,3 +112,18 @@ def test_missing_specs_folder(tmp_path):
     r = run_tool(tmp_path, "check", "nowhere")
     assert (r.returncode, "Traceback" in r.stderr) == (2, False)
     assert r.stderr.startswith("nowhere:1:1: expected a spec file or a folder of specs, found nothing there")
+
+
+def test_a_spec_that_links_out_of_the_specs_folder_is_not_read(tmp_path, monkeypatch, capsys):
+    (tmp_path / "outside.yaml").write_text("spec: 1\nid: outside\n", encoding="utf-8")
+    (tmp_path / "specs").mkdir()
+    (tmp_path / "specs" / "inside.yaml").write_text("spec: 1\nid: inside\n", encoding="utf-8")
+    (tmp_path / "specs" / "link.yaml").symlink_to("../outside.yaml")
+    (tmp_path / "specs" / "sub").mkdir()
+    (tmp_path / "specs" / "sub" / "ok.yaml").symlink_to("../inside.yaml")  # a link inside is fine
+    monkeypatch.chdir(tmp_path)
+    assert main(["check", "specs"]) == 2
+    err = capsys.readouterr().err
+    assert problem_lines(err) == ["specs/link.yaml:1:1: expected a spec file inside specs, found a link to a file "
+                                  "outside it", "specs/sub/ok.yaml:2:5: id: expected an id of its own, found 'inside' "
+                                  "again (also the id of specs/inside.yaml)"]

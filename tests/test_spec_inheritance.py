@@ -98,7 +98,7 @@ def test_grandchild_inherits_through_the_chain(load):
 def test_error_in_an_inherited_value_points_at_the_parent_file(load):
     child = "spec: 1\nid: orbit-24\nextends: orbit-base\n"
     errors = load({"base.yaml": BASE.replace("delta_uv: 0.01}", "delta_uv: -0.01}"), "child.yaml": child})
-    assert errors == ["base.yaml:13:25: primaries.tolerance.delta_uv: expected a number > 0, found -0.01"]
+    assert errors == ["base.yaml:13:25: primaries.tolerance.delta_uv: expected a number > 0 and <= 1, found -0.01"]
 
 
 def test_problem_only_in_the_merge_points_at_the_child(load):

@@ -152,8 +152,8 @@ def test_nan_and_infinity_are_rejected(load, written):
 def test_negative_tolerances(load):
     assert load(HEAD + "white:\n  target: D65\n  tolerance:\n    delta_uv: -0.01\n"
                 "    box: {dx: -0.002, dy: 0.002}\n") == [
-        "s.yaml:6:15: white.tolerance.delta_uv: expected a number > 0, found -0.01",
-        "s.yaml:7:15: white.tolerance.box.dx: expected a number > 0, found -0.002",
+        "s.yaml:6:15: white.tolerance.delta_uv: expected a number > 0 and <= 1, found -0.01",
+        "s.yaml:7:15: white.tolerance.box.dx: expected a number > 0 and <= 1, found -0.002",
     ]
 
 
@@ -343,3 +343,4 @@ def test_a_primary_that_fails_its_check_is_still_a_primary_for_the_units(load):
     errors = load(text)
     assert len(errors) == 1
     assert errors[0].startswith("s.yaml:4:8: primaries.red: expected a chromaticity inside the spectral locus")
+

@@ -7,6 +7,7 @@ from __future__ import annotations
 
 import io
 import re
+import warnings
 from dataclasses import dataclass
 from functools import cache
 
@@ -54,6 +55,20 @@ class Layer:
     tolerances: list                       # (label, polygon_xy (k, 2))
     units: list                            # (serial, (x, y), verdict)
     observer: str = "cie1931-2"
+
+
+LABEL_CHARS = 120
+
+
+def plain_text(text: str) -> str:
+    """Spec text as matplotlib draws it literally: '$' would start mathtext (a stray
+    '$\\frac{' raises while saving) and a leading '_' hides a legend entry. The SVG
+    writer escapes <, > and &; this only stops matplotlib from interpreting the text."""
+    text = str(text)
+    if len(text) > LABEL_CHARS:  # the page shows it whole; a legend entry stays readable
+        text = text[: LABEL_CHARS - 1] + "…"
+    text = text.replace("$", r"\$")
+    return "\u200b" + text if text.startswith("_") else text
 
 
 def _to(diagram, xy):
@@ -194,7 +209,7 @@ def chromaticity_diagram(layer: Layer, diagram: str, fill: bool = True):
     fig._colourspec_drawn = _Drawn(fig, ax, _static_svg(diagram, layer.observer, fill))
     for i, (title, hull) in enumerate(layer.references):
         colour, dash = REFERENCE_STYLES[i % len(REFERENCE_STYLES)]
-        ax.plot(*_closed(_to(diagram, hull)).T, color=colour, ls=dash, lw=1.1, zorder=4, label=title)
+        ax.plot(*_closed(_to(diagram, hull)).T, color=colour, ls=dash, lw=1.1, zorder=4, label=plain_text(title))
     if layer.gamut_xy is not None:
         g = _to(diagram, layer.gamut_xy)
         ax.plot(*_closed(g).T, color=PALETTE["gamut"], lw=1.8, zorder=5, label="spec gamut")
@@ -204,12 +219,12 @@ def chromaticity_diagram(layer: Layer, diagram: str, fill: bool = True):
     for name, xy in layer.primaries:
         p = _to(diagram, xy)
         ax.plot(*p, marker="+", color=PALETTE["target"], ms=8, zorder=7)
-        ax.annotate(name, p, xytext=(5, 5), textcoords="offset points", fontsize=8, zorder=8)
+        ax.annotate(plain_text(name), p, xytext=(5, 5), textcoords="offset points", fontsize=8, zorder=8)
     if layer.white_xy is not None:
         ax.plot(*_to(diagram, layer.white_xy), marker="*", color=PALETTE["target"], ms=9, zorder=7,
                 label="white target", ls="none")
     _units(ax, layer.units, lambda xy: _to(diagram, xy))
-    fig.text(FULL_AXES[0] + FULL_AXES[2] / 2, 0.975, layer.title, fontsize=10, ha="center", va="top")
+    fig.text(FULL_AXES[0] + FULL_AXES[2] / 2, 0.975, plain_text(layer.title), fontsize=10, ha="center", va="top")
     ax.legend(handles=_static_handles() + ax.get_legend_handles_labels()[0],
               loc="upper right" if diagram == "xy" else "lower right", fontsize=7, frameon=True,
               framealpha=0.92)
@@ -318,11 +333,11 @@ def white_closeup(layer: Layer, span: float = 0.02):
                     bbox=_LABEL_BOX)
     for i, (label, poly) in enumerate(layer.tolerances):
         ax.plot(*_closed(xy_to_uv_prime(np.asarray(poly))).T, color=PALETTE["tolerance"], lw=1.1,
-                ls=TOLERANCE_DASHES[i % len(TOLERANCE_DASHES)], zorder=3, label=f"{label} (to scale)")
+                ls=TOLERANCE_DASHES[i % len(TOLERANCE_DASHES)], zorder=3, label=f"{plain_text(label)} (to scale)")
     ax.plot(*w, marker="*", color=PALETTE["target"], ms=11, ls="none", zorder=5, label="white target")
     _units(ax, layer.units, lambda xy: xy_to_uv_prime(np.array(xy)))
     ax.set(xlim=(x0, x1), ylim=(y0, y1), xlabel="u'", ylabel="v'")
-    fig.text(0.55, 0.985, layer.title, fontsize=10, ha="center", va="top")
+    fig.text(0.55, 0.985, plain_text(layer.title), fontsize=10, ha="center", va="top")
     fig.legend(*ax.get_legend_handles_labels(), loc="lower center", ncols=2, fontsize=7, frameon=False)
     return fig, ax
 
@@ -374,7 +389,11 @@ def save_svg(fig, title: str = "", desc: str = "") -> str:
     """The figure as SVG text, with a <title> and <desc> for screen readers when given. A
     figure drawn on a cached frame has its spec's layers removed afterwards."""
     buf = io.StringIO()
-    fig.savefig(buf, format="svg", metadata={"Date": None, "Creator": None})
+    with warnings.catch_warnings():
+        # text is written as SVG text (svg.fonttype none) and drawn by the reader's fonts, so a
+        # character missing from the layout font (CJK in a title) only affects spacing
+        warnings.filterwarnings("ignore", message=r"Glyph \d+ .* missing from font", category=UserWarning)
+        fig.savefig(buf, format="svg", metadata={"Date": None, "Creator": None})
     svg = buf.getvalue()
     drawn = getattr(fig, "_colourspec_drawn", None)
     if drawn is not None:

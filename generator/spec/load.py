@@ -9,10 +9,11 @@ import os
 from dataclasses import dataclass
 from pathlib import Path
 
+from .limits import limits
 from .problems import InputError, Problems, did_you_mean
 from .schema import SPEC
 from .types import INVALID, describe
-from .yamlnodes import Map, Mark, Node, Scalar, parse_yaml
+from .yamlnodes import Map, Mark, Node, Scalar, parse_yaml, too_big
 
 SPEC_SUFFIXES = (".yaml", ".yml")
 
@@ -52,19 +53,34 @@ def discover(specs: Path, problems: Problems) -> list[Path]:
         return []
     files = sorted(p for p in specs.rglob("*") if p.suffix in SPEC_SUFFIXES and p.is_file()
                    and not any(part.startswith(".") for part in p.relative_to(specs).parts))
-    if not files:
+    root = os.path.realpath(specs)
+    inside = [p for p in files if os.path.commonpath([root, os.path.realpath(p)]) == root]
+    for p in files:
+        if p not in inside:  # a link out of the specs folder: never read it
+            problems.error(Mark(display_path(p, specs), 1, 1), "",
+                           f"expected a spec file inside {display_path(specs)}, found a link to a file outside it",
+                           "copy the file into the specs folder instead")
+    files = inside
+    if not files and not problems.errors:
         problems.error(Mark(display_path(specs), 1, 1), "", "expected spec files (*.yaml), found none",
                        "run 'colourspec new specs/my-spec.yaml' for a starter spec")
     return files
 
 
 def read_files(files: list[Path], problems: Problems, root: Path | None = None) -> list[tuple[str, bytes]]:
-    """(name shown to people, bytes) of every file that can be read."""
+    """(name shown to people, bytes) of every file that can be read; a file over the byte
+    limit is refused before it is read, so memory stays bounded."""
     out = []
+    lim = limits()
     for path in files:
         shown = display_path(path, root)
         try:
-            out.append((shown, path.read_bytes()))
+            with open(path, "rb") as f:
+                size = os.fstat(f.fileno()).st_size
+                if size > lim.max_bytes:
+                    too_big(shown, size, lim, problems)
+                    continue
+                out.append((shown, f.read(lim.max_bytes + 1)))
         except OSError as e:
             problems.error(Mark(shown, 1, 1), "", f"cannot read the file: {e.strerror}")
     return out
@@ -73,9 +89,10 @@ def read_files(files: list[Path], problems: Problems, root: Path | None = None) 
 def read_sources(documents: list[tuple[str, bytes]], problems: Problems) -> list[SourceSpec]:
     out: list[SourceSpec] = []
     seen: dict[str, SourceSpec] = {}
+    lim = limits()
     for shown, data in documents:
         path = Path(shown)
-        node = parse_yaml(data, shown, problems)
+        node = parse_yaml(data, shown, problems, lim)
         if node is None:
             continue
         if not isinstance(node, Map):

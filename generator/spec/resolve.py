@@ -176,7 +176,8 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems,
             other = by_id.get(ref)
             rg = _reference_from_spec(other) if other is not None else None
             if other is not None and rg is None:
-                r.error(["gamut", i, "reference"], f"spec '{ref}' has no three or more primaries to compare with")
+                r.error(["gamut", i, "reference"], f"expected a reference space or a spec with three or more "
+                        f"primaries, found spec '{ref}', which has fewer")
                 continue
             if rg is None:
                 choices = list(REFERENCE_SPACES) + list(by_id)

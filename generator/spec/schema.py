@@ -13,6 +13,7 @@ SLUG = r"[a-z0-9][a-z0-9-]*"
 NAME = r"[A-Za-z][A-Za-z0-9_-]*"
 RESERVED_PRIMARY_NAMES = ("tolerance",)
 UNIT_KEYS = ("serial", "lot", "supplier", "white", "notes")
+SHORT_TEXT = 500  # characters in a title, name, serial or lot: they go into tables and diagram legends
 
 
 def _unit_interval(desc):
@@ -27,16 +28,17 @@ _CCT = Field(Number("correlated colour temperature, K", minimum=1000.0, maximum=
              True)
 _DUV = Field(Number("signed distance from the Planckian locus in CIE 1960 uv (positive above); "
                     "CIE 15 holds CCT meaningful within 0.05", minimum=-0.05, maximum=0.05))
+MAX_TRISTIMULUS = 1e12  # CIE XYZ: far above any light source; keeps the sum X + Y + Z finite
 _LUM = Field(Number("luminance, cd/m²", minimum=0.0, unit="cd/m2"))
 
 BOX = Record({
-    "dx": Field(Number("half-width in CIE 1931 x", exclusive_minimum=0.0), True),
-    "dy": Field(Number("half-height in CIE 1931 y", exclusive_minimum=0.0), True),
+    "dx": Field(Number("half-width in CIE 1931 x", exclusive_minimum=0.0, maximum=1.0), True),
+    "dy": Field(Number("half-height in CIE 1931 y", exclusive_minimum=0.0, maximum=1.0), True),
 }, "a rectangle centred on the target in CIE 1931 xy: |x − x0| <= dx and |y − y0| <= dy")
 
 ELLIPSE = Record({
-    "a": Field(Number("semi-major axis in CIE 1931 xy", exclusive_minimum=0.0), True),
-    "b": Field(Number("semi-minor axis in CIE 1931 xy", exclusive_minimum=0.0), True),
+    "a": Field(Number("semi-major axis in CIE 1931 xy", exclusive_minimum=0.0, maximum=1.0), True),
+    "b": Field(Number("semi-minor axis in CIE 1931 xy", exclusive_minimum=0.0, maximum=1.0), True),
     "angle": Field(Number("angle of the major axis from the +x axis, degrees",
                           minimum=-360.0, maximum=360.0), True),
 }, "an ellipse centred on the target in CIE 1931 xy")
@@ -60,7 +62,7 @@ def _point_xy(node, path, problems):
 def _tolerance(white: bool) -> Record:
     f = {
         "delta_uv": Field(Number("radius of a circle around the target in CIE 1976 u'v'",
-                                 exclusive_minimum=0.0)),
+                                 exclusive_minimum=0.0, maximum=1.0)),
         "box": Field(BOX, description=BOX.description),
         "ellipse": Field(ELLIPSE, description=ELLIPSE.description),
         "region": Field(REGION, description=REGION.description),
@@ -99,9 +101,9 @@ def _forms(extra: dict[str, Field], names: bool, cct: bool, xyz: bool) -> dict[s
     if cct:
         forms["cct"] = Record({"cct": _CCT, "duv": _DUV, **extra})
     if xyz:
-        forms["XYZ"] = Record({"X": Field(Number("CIE X", minimum=0.0), True),
-                               "Y": Field(Number("CIE Y, cd/m²", minimum=0.0), True),
-                               "Z": Field(Number("CIE Z", minimum=0.0), True), **extra})
+        forms["XYZ"] = Record({"X": Field(Number("CIE X", minimum=0.0, maximum=MAX_TRISTIMULUS), True),
+                               "Y": Field(Number("CIE Y, cd/m²", minimum=0.0, maximum=MAX_TRISTIMULUS), True),
+                               "Z": Field(Number("CIE Z", minimum=0.0, maximum=MAX_TRISTIMULUS), True), **extra})
     return forms
 
 
@@ -198,9 +200,9 @@ MEASURED = chromaticity("a measured chromaticity, with luminance Y in cd/m² whe
                         extra={"Y": _LUM}, xyz=True)
 
 UNIT = Record({
-    "serial": Field(Text("the unit's serial number"), True),
-    "lot": Field(Text("the production lot")),
-    "supplier": Field(Text("who made and measured the unit")),
+    "serial": Field(Text("the unit's serial number", max_length=SHORT_TEXT), True),
+    "lot": Field(Text("the production lot", max_length=SHORT_TEXT)),
+    "supplier": Field(Text("who made and measured the unit", max_length=SHORT_TEXT)),
     "white": Field(MEASURED, description="measured white, {x, y, Y}"),
     "notes": Field(Text("free text about the unit")),
 }, "one measured unit; other keys are its measured primaries by name",
@@ -265,24 +267,53 @@ MEASUREMENTS = ListOf(Text("path of a measurement file (.csv, or .cgats / .txt i
                            "the spec file and inside the specs folder"),
                       "measurement files from instruments; their units are assessed like inline units")
 
+
+# Python-Markdown takes time in the square of the number of '[' (4000 of them: 1.6 s) and
+# recurses once per level of list nesting (500 levels: RecursionError); real notes need
+# neither, so both are refused here, with the file and line, instead of failing at render.
+MAX_NOTE_BRACKETS = 1000
+MAX_NOTE_INDENT = 100
+
+
+def _notes(node, path, problems):
+    v = _NOTES_TEXT.check(node, path, problems)
+    if v is INVALID:
+        return v
+    if v.count("[") > MAX_NOTE_BRACKETS:
+        problems.error(node.mark, path, f"expected at most {MAX_NOTE_BRACKETS} '[' in the notes, "
+                       f"found {v.count('[')}", "split the notes, or link less")
+        return INVALID
+    for i, line in enumerate(v.splitlines(), 1):
+        wide = line.expandtabs(4)
+        indent = len(wide) - len(wide.lstrip())
+        if indent > MAX_NOTE_INDENT:
+            problems.error(node.mark, path, f"expected notes indented at most {MAX_NOTE_INDENT} spaces, found "
+                           f"{indent} on line {i} of the notes", "Markdown nests a level for every few spaces")
+            return INVALID
+    return v
+
+
+_NOTES_TEXT = Text("Markdown notes shown on the spec page")
+NOTES = Custom(_notes, {"type": "string"}, _NOTES_TEXT.description, "Markdown text")
+
 SPEC = Record({
     "$schema": Field(Text("address of the editor JSON Schema (ignored by the tool)")),
     "spec": Field(Integer("format version", allowed=(1,)), True, "the format version: spec: 1"),
     "id": Field(Text("unique slug, used for URLs", pattern=SLUG,
                      pattern_help="a slug of lower-case letters, digits and hyphens"), True,
                 "a unique slug such as orvane-27-studio"),
-    "title": Field(Text("title of the spec")),
-    "product": Field(Text("the product the spec is for")),
-    "family": Field(Text("product family, for grouping on the index")),
+    "title": Field(Text("title of the spec", max_length=SHORT_TEXT)),
+    "product": Field(Text("the product the spec is for", max_length=SHORT_TEXT)),
+    "family": Field(Text("product family, for grouping on the index", max_length=SHORT_TEXT)),
     "category": Field(Text("kind of product; signal, safety and lighting specs carry a caution",
                            choices=("display", "indicator", "lighting", "signal", "safety"))),
-    "revision": Field(Text("revision label")),
+    "revision": Field(Text("revision label", max_length=SHORT_TEXT)),
     "status": Field(Text("life-cycle status", choices=("draft", "released", "obsolete"))),
     "observer": Field(Text("standard observer", choices=("cie1931-2", "cie1964-10"))),
     "extends": Field(Text("id of a spec to inherit from", pattern=SLUG,
                           pattern_help="a spec id")),
-    "owner": Field(Text("who owns the spec")),
-    "notes": Field(Text("Markdown notes shown on the spec page")),
+    "owner": Field(Text("who owns the spec", max_length=SHORT_TEXT)),
+    "notes": Field(NOTES),
     "white": Field(WHITE, description=WHITE.description),
     "primaries": Field(PRIMARIES, description=PRIMARIES.description),
     "gamut": Field(ListOf(GAMUT_REQUIREMENT, "requirements on the gamut"),

@@ -158,6 +158,10 @@ class Integer(Type):
         return s
 
 
+# C0 and C1 controls other than tab and line ends, and the XML non-characters U+FFFE, U+FFFF
+_CONTROL = re.compile("[\x00-\x08\x0b\x0c\x0e-\x1f\x7f-\x9f\ufffe\uffff]")
+
+
 @dataclass
 class Text(Type):
     """Any scalar, taken as its source text: `revision: 2` is "2", `status: no` is "no"."""
@@ -175,6 +179,11 @@ class Text(Type):
         v = node.text
         if len(v) > self.max_length:
             problems.error(node.mark, path, f"expected at most {self.max_length} characters, found {len(v)}")
+            return INVALID
+        bad = _CONTROL.search(v)
+        if bad:  # a quoted "\x07" or "\0" escape; such characters also make the SVG diagrams invalid XML
+            problems.error(node.mark, path, f"expected text without control characters, found U+{ord(bad.group()):04X} "
+                           f"at character {bad.start() + 1}", "remove the escape sequence that writes it")
             return INVALID
         if self.choices and v not in self.choices:
             hint = did_you_mean(v, self.choices)

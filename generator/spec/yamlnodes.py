@@ -13,6 +13,7 @@ from dataclasses import dataclass, field
 
 import yaml
 
+from .limits import DEFAULTS, Limits, limits
 from .problems import Problems
 
 try:
@@ -20,9 +21,10 @@ try:
 except AttributeError:  # pure-Python PyYAML build
     _Loader = yaml.SafeLoader
 
-MAX_BYTES = 8 * 1024 * 1024      # a spec or measurement YAML file, bytes
-MAX_NODES = 200_000              # nodes after alias expansion
-MAX_DEPTH = 64                   # nesting of mappings and sequences
+# The default limits (see generator/spec/limits.py for the COLOURSPEC_MAX_* variables)
+MAX_BYTES = DEFAULTS.max_bytes   # a spec or measurement YAML file, bytes
+MAX_NODES = DEFAULTS.max_nodes   # values, counted while parsing and after alias expansion
+MAX_DEPTH = DEFAULTS.max_depth   # nesting of mappings and sequences
 
 
 @dataclass(frozen=True)
@@ -77,12 +79,17 @@ def _position(text: str, index: int) -> tuple[int, int]:
     return text.count(nl, 0, index) + 1, index - (text.rfind(nl, 0, index) + 1) + 1
 
 
-def parse_yaml(data: bytes, file: str, problems: Problems) -> Node | None:
+def too_big(file: str, size: int, lim: Limits, problems: Problems) -> None:
+    problems.error(Mark(file, 1, 1), "", f"expected a file of at most {lim.max_bytes} bytes, found {size} bytes",
+                   "split the file, or set COLOURSPEC_MAX_BYTES to allow more")
+
+
+def parse_yaml(data: bytes, file: str, problems: Problems, lim: Limits | None = None) -> Node | None:
     """Parse one YAML document into nodes; every problem goes to ``problems``."""
+    lim = lim or limits()
     top = Mark(file, 1, 1)
-    if len(data) > MAX_BYTES:
-        problems.error(top, "", f"expected a file of at most {MAX_BYTES} bytes, found {len(data)} bytes",
-                       "split the file, or raise generator.spec.yamlnodes.MAX_BYTES")
+    if len(data) > lim.max_bytes:
+        too_big(file, len(data), lim, problems)
         return None
     try:
         text = data.decode("utf-8-sig")
@@ -97,12 +104,16 @@ def parse_yaml(data: bytes, file: str, problems: Problems) -> Node | None:
                        "expected text, found a NUL character (is this a binary file?)")
         return None
     try:
+        aliases = _scan_events(text, file, lim)  # streaming: refuses before any node is built
         nodes = list(yaml.compose_all(text, Loader=_Loader))
+    except _TooBig as e:
+        problems.error(e.mark, "", str(e), e.hint)
+        return None
     except yaml.YAMLError as e:
-        _syntax_error(e, text, file, problems)
+        _syntax_error(e, text, file, problems, lim)
         return None
     except RecursionError:  # only the pure-Python composer recurses
-        problems.error(top, "", f"expected at most {MAX_DEPTH} levels of nesting, found far more",
+        problems.error(top, "", f"expected at most {lim.max_depth} levels of nesting, found far more",
                        _DEPTH_HINT)
         return None
     if not nodes or nodes[0] is None:
@@ -114,17 +125,49 @@ def parse_yaml(data: bytes, file: str, problems: Problems) -> Node | None:
                        "put each spec in a file of its own")
         return None
     try:
-        _check_size(nodes[0], file)
-        return _convert(nodes[0], file, problems, 0, "")
+        if aliases:
+            _check_size(nodes[0], file, lim)
+        return _convert(nodes[0], file, problems, 0, "", lim)
     except _TooBig as e:
         problems.error(e.mark, "", str(e), e.hint)
         return None
 
 
 _DEPTH_HINT = "a spec needs a few levels; this looks like a generated or corrupted file"
+_NODES_HINT = "a spec needs a few hundred values; set COLOURSPEC_MAX_NODES to allow more"
+_NODE_EVENTS = (yaml.ScalarEvent, yaml.AliasEvent, yaml.SequenceStartEvent, yaml.MappingStartEvent)
 
 
-def _syntax_error(e: yaml.YAMLError, text: str, file: str, problems: Problems) -> None:
+def _scan_events(text: str, file: str, lim: Limits) -> int:
+    """Count values and nesting in the parser's event stream, which costs constant memory,
+    and refuse a document over the limits before composing it into nodes. Returns the
+    number of aliases (without any, the expanded size is the count just checked)."""
+    loader = _Loader(text)
+    depth = -1  # the depth of the innermost open collection; the document's root is 0
+    count = aliases = 0
+    try:
+        while loader.check_event():
+            ev = loader.get_event()
+            if isinstance(ev, _NODE_EVENTS):
+                count += 1
+                if depth + 1 > lim.max_depth:
+                    raise _TooBig(f"expected at most {lim.max_depth} levels of nesting, found more",
+                                  _mark(file, ev.start_mark), _DEPTH_HINT)
+                if count > lim.max_nodes:
+                    raise _TooBig(f"expected at most {lim.max_nodes} values, found more",
+                                  _mark(file, ev.start_mark), _NODES_HINT)
+                if isinstance(ev, (yaml.SequenceStartEvent, yaml.MappingStartEvent)):
+                    depth += 1
+                elif isinstance(ev, yaml.AliasEvent):
+                    aliases += 1
+            elif isinstance(ev, (yaml.SequenceEndEvent, yaml.MappingEndEvent)):
+                depth -= 1
+    finally:
+        loader.dispose()
+    return aliases
+
+
+def _syntax_error(e: yaml.YAMLError, text: str, file: str, problems: Problems, lim: Limits = DEFAULTS) -> None:
     """Report a libyaml error at the most useful place, in words a newcomer can act on."""
     if isinstance(e, yaml.reader.ReaderError):
         where = Mark(file, *_position(text, e.position))
@@ -147,7 +190,7 @@ def _syntax_error(e: yaml.YAMLError, text: str, file: str, problems: Problems) -
                        "YAML indents with spaces only; replace the tabs with spaces")
         return
     if "maximum nesting depth" in problem:
-        problems.error(where, "", f"expected at most {MAX_DEPTH} levels of nesting, found far more", _DEPTH_HINT)
+        problems.error(where, "", f"expected at most {lim.max_depth} levels of nesting, found far more", _DEPTH_HINT)
         return
     problem = _plain_words(problem)
     context = _plain_words(e.context or "").removeprefix("while ")
@@ -183,7 +226,7 @@ def _children(n) -> list:
     return []
 
 
-def _check_size(root, file: str) -> None:
+def _check_size(root, file: str, lim: Limits) -> None:
     """Refuse a document whose aliases expand it past MAX_NODES (a "billion laughs" bomb),
     or that refers to itself, before expanding anything. Works on the shared node graph,
     so it costs time in the number of distinct nodes, not in the expanded size."""
@@ -195,8 +238,8 @@ def _check_size(root, file: str) -> None:
         if closing:
             open_.discard(id(n))
             size[id(n)] = 1 + sum(size[id(c)] for c in _children(n))
-            if size[id(n)] > MAX_NODES:
-                raise _TooBig(f"expected at most {MAX_NODES} values once aliases are expanded, found more",
+            if size[id(n)] > lim.max_nodes:
+                raise _TooBig(f"expected at most {lim.max_nodes} values once aliases are expanded, found more",
                               _mark(file, n.start_mark), "YAML aliases that expand this far are refused")
             continue
         if id(n) in size:
@@ -209,19 +252,22 @@ def _check_size(root, file: str) -> None:
         stack.extend((c, False) for c in _children(n) if id(c) not in size)
 
 
-def _convert(n, file, problems, depth, path) -> Node:
+# The tags a plain document resolves to, and '!' (the non-specific tag of quoted text).
+_PLAIN_TAGS = {"", "!"} | {f"tag:yaml.org,2002:{t}" for t in ("str", "int", "float", "bool", "null", "seq", "map")}
+
+
+def _convert(n, file, problems, depth, path, lim: Limits) -> Node:
     mark = _mark(file, n.start_mark)
-    if depth > MAX_DEPTH:
-        raise _TooBig(f"expected at most {MAX_DEPTH} levels of nesting, found more", mark, _DEPTH_HINT)
+    if depth > lim.max_depth:
+        raise _TooBig(f"expected at most {lim.max_depth} levels of nesting, found more", mark, _DEPTH_HINT)
     tag = n.tag or ""
-    if tag.startswith("tag:yaml.org,2002:"):
-        tag = ""
-    if tag and tag != "!":
-        problems.error(mark, path, f"expected a plain value, found the YAML tag {n.tag!r}", "remove the tag")
+    if tag not in _PLAIN_TAGS:  # !!python/..., !!binary, !!set, local tags: refused, never constructed
+        shown = "!!" + tag.removeprefix("tag:yaml.org,2002:") if tag.startswith("tag:yaml.org,2002:") else tag
+        problems.error(mark, path, f"expected a plain value, found the YAML tag {shown!r}", "remove the tag")
     if isinstance(n, yaml.ScalarNode):
         return Scalar(n.value, n.style in (None, ""), mark)
     if isinstance(n, yaml.SequenceNode):
-        return Seq([_convert(c, file, problems, depth + 1, f"{path}[{i}]") for i, c in enumerate(n.value)],
+        return Seq([_convert(c, file, problems, depth + 1, f"{path}[{i}]", lim) for i, c in enumerate(n.value)],
                    mark)
     items: dict[str, Node] = {}
     key_marks: dict[str, Mark] = {}
@@ -242,6 +288,6 @@ def _convert(n, file, problems, depth, path) -> Node:
                            f"(first at line {first.line}, column {first.col})",
                            "YAML would silently keep only the last value; remove one of them")
             continue
-        items[key] = _convert(v, file, problems, depth + 1, kpath)
+        items[key] = _convert(v, file, problems, depth + 1, kpath, lim)
         key_marks[key] = kmark
     return Map(items, key_marks, mark)
