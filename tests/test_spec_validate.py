@@ -344,3 +344,41 @@ def test_a_primary_that_fails_its_check_is_still_a_primary_for_the_units(load):
     assert len(errors) == 1
     assert errors[0].startswith("s.yaml:4:8: primaries.red: expected a chromaticity inside the spectral locus")
 
+
+
+def test_a_misspelt_declared_key_among_free_names_is_an_unknown_key_with_did_you_mean(spec_dir):
+    from generator.spec.load import load_specs
+    from generator.spec.problems import InputError
+
+    spec_dir("p.yaml", """\
+spec: 1
+id: typo
+primaries:
+  red:   {x: 0.640, y: 0.330}
+  green: {x: 0.300, y: 0.600}
+  blue:  {x: 0.150, y: 0.060}
+  tolerence: {delta_uv: 0.005}
+""")
+    import pytest
+
+    with pytest.raises(InputError) as e:
+        load_specs(spec_dir.dir)
+    lines = [p.format() for p in e.value.problems]
+    assert lines == ["specs/p.yaml:7:3: primaries.tolerence: expected a known key, found unknown key 'tolerence'"
+                     "\n    hint: did you mean 'tolerance'?"], lines
+
+
+def test_free_names_that_merely_resemble_a_declared_key_stay_primaries(spec_dir):
+    from generator.spec.load import load_specs
+
+    spec_dir("p.yaml", """\
+spec: 1
+id: tunable
+primaries:
+  orange:     {x: 0.600, y: 0.390}
+  warm-white: {x: 0.450, y: 0.410}
+  cool-white: {x: 0.300, y: 0.310}
+  blue:       {x: 0.150, y: 0.060}
+""")
+    (spec,), _ = load_specs(spec_dir.dir)
+    assert [p.name for p in spec.primaries] == ["orange", "warm-white", "cool-white", "blue"]

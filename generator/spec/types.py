@@ -48,6 +48,14 @@ def describe(node: Node) -> str:
     return repr(_short(node.text))
 
 
+def _near_miss(word: str, choices) -> bool:
+    """A very close spelling of a declared key (tolerence, tolerances), not merely a similar
+    name: 'orange' or 'warm-white' stay free names."""
+    import difflib
+
+    return bool(difflib.get_close_matches(word, list(choices), n=1, cutoff=0.85))
+
+
 class Type:
     description: str = ""
 
@@ -241,7 +249,10 @@ class Record(Type):
                 if isinstance(child, Scalar) and child.is_null and not f.required:
                     continue
                 v = f.type.check(child, kpath, problems)
-            elif self.extra is not None and re.fullmatch(self.extra_key, key):
+            elif (self.extra is not None and re.fullmatch(self.extra_key, key)
+                  and not (isinstance(child, Map) and _near_miss(key, self.fields))):
+                # a free key (a primary's name) that is a near-miss of a declared key and
+                # holds a mapping is far likelier a typo ('tolerence') than a new name
                 v = self.extra.check(child, kpath, problems)
             else:
                 hint = did_you_mean(key, self.fields)
