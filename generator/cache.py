@@ -1,10 +1,12 @@
 """Incremental builds: a content-hash cache of each spec's rendered files (its SVG
-diagrams and its page), the part of a build that costs.
+diagrams, its page, and its lot and supplier pages with their diagrams and histograms),
+the part of a build that costs.
 
 The key of a spec hashes everything its page and figures are made from: the bytes of
 its own file and of every spec it depends on (its ancestors through ``extends``, the
 specs its gamut rows use as references, and theirs) with the spectra CSV files each
-of them reads, its file name and history,
+of them reads, the bytes of every measurement file it reads (its own ``measurements:``
+or inherited ones), its file name and history,
 the templates and static files, the generator's own source, the tool's version and
 matplotlib's. Anything else changed gives a new key, so a hit is the same bytes a
 full build would render. The index and results.json are always rebuilt (cheap).
@@ -79,6 +81,8 @@ def spec_key(spec, by_id: dict, extra: str = "") -> str:
         h.update(f"{sid}={dep.digest}\0".encode())
         for name, digest in getattr(dep, "input_files", {}).items():   # spectra CSV files it read
             h.update(f"{sid}:{name}={digest}\0".encode())
+    for name, digest in zip(spec.measurements, spec.measurement_digests, strict=True):
+        h.update(f"measurements {name}={digest}\0".encode())
     h.update(extra.encode())
     return h.hexdigest()
 

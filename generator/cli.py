@@ -116,13 +116,14 @@ def _write_out(path: str, text: str) -> None:
 
 def _annotations(args, problems, evaluated=()) -> None:
     from .render import annotations as A
-    from .spec.locate import locate_row
+    from .spec.locate import locate_row, unit_files
 
     items = [A.from_problem(p) for p in problems]
     for e in evaluated:
+        files = unit_files(e.spec)
         for row in e.assessment.rows:
             if row["verdict"] != "pass":
-                items.append(A.from_row(e.spec, row, locate_row(e.spec.source, row)))
+                items.append(A.from_row(e.spec, row, locate_row(e.spec.source, row, files)))
     limit = A.DEFAULT_LIMIT if args.annotations_limit is None else args.annotations_limit
     sys.stdout.write(A.render(items, limit))
 

@@ -1,5 +1,6 @@
-"""Compute: the derived figures of a spec's targets and of its measured units.
+"""Compute: the derived figures of a spec's targets.
 
+Measured units are assessed column-wise in ``assess/units.py``, not here.
 Pure numbers in, pure numbers out (plain dicts shaped like results.json's `derived`);
 no YAML, no HTML, no files.
 """
@@ -158,15 +159,6 @@ def white_figures(xy) -> dict:
 
 
 @dataclass
-class UnitFigures:
-    serial: str
-    white: dict | None
-    primaries: dict[str, dict]
-    gamut: GamutFigures | None
-    colours: dict[str, dict] = field(default_factory=dict)
-
-
-@dataclass
 class Derived:
     white: dict | None
     primaries: dict[str, dict]
@@ -174,9 +166,10 @@ class Derived:
     npm_inverse: list | None
     gamut: GamutFigures | None
     ref_hulls: dict
-    units: list[UnitFigures] = field(default_factory=list)
     colours: dict[str, dict] = field(default_factory=dict)
     spectra: dict[str, dict] = field(default_factory=dict)
+    # measured indicator colours of inline units: serial -> colour name -> figures
+    unit_colours: dict[str, dict] = field(default_factory=dict)
 
     def as_json(self) -> dict:
         d: dict = {"white": self.white, "primaries": self.primaries}
@@ -224,32 +217,14 @@ def derive(spec: Spec) -> Derived:
         colours[c.name] = colour_figures([c.xy], [np.nan if c.Y is None else c.Y], c.reference_white,
                                          spec.observer)[0]
 
-    units = []
-    whites = [u.white.xy for u in spec.units if u.white is not None]
-    wfig = iter(white_figures(whites)) if whites else iter(())
-    needed = sorted({g.reference for g in spec.gamut})
-    names = [p.name for p in spec.primaries]
+    unit_colours: dict[str, dict] = {}
     for u in spec.units:
-        uw = None
-        if u.white is not None:
-            uw = next(wfig)
-            uw["Y"] = u.white.Y
-        up = {}
-        for name, m in u.primaries.items():
-            uv = xy_to_uv_prime(np.array(m.xy))
-            up[name] = {"x": m.xy[0], "y": m.xy[1], "u_prime": float(uv[0]), "v_prime": float(uv[1]), "Y": m.Y}
-        ug = None
-        if names and all(n in u.primaries for n in names):
-            ug = gamut_figures([u.primaries[n].xy for n in names], ref_hulls, needed)
-            if any(g.metric.startswith("volume") for g in spec.gamut) and len(names) == 3 and white_xy:
-                # the unit's own white where measured, else the white target
-                m = npm_from_primaries([u.primaries[n].xy for n in names], u.white.xy if u.white else white_xy)
-                ug.volume = volume_figures(m, spec, volume_refs)
         uc = {}
         for name, m in u.colours.items():
             c = by_name[name]
             uc[name] = colour_figures([m.xy], [np.nan if m.Y is None else m.Y], c.reference_white,
                                       spec.observer)[0]
-        units.append(UnitFigures(u.serial, uw, up, ug, uc))
+        if uc:
+            unit_colours.setdefault(u.serial, {}).update(uc)
     spectra = {sd.key: spectrum_figures(sd, spec.observer) for sd in spec.spectra}
-    return Derived(white, prims, npm, npm_inv, gamut, ref_hulls, units, colours, spectra)
+    return Derived(white, prims, npm, npm_inv, gamut, ref_hulls, colours, spectra, unit_colours)

@@ -8,11 +8,14 @@ compared row by row (requirement id and unit).
 """
 from __future__ import annotations
 
+import math
+import posixpath
 import subprocess
 from dataclasses import dataclass, field
-from pathlib import Path
+from pathlib import Path, PurePosixPath
 
 from .build import Evaluated, evaluate_specs
+from .measure.files import FORMATS, PathRefused
 from .spec.load import SPEC_SUFFIXES, display_path, load_documents, load_specs
 from .spec.problems import InputError, Problem
 
@@ -37,23 +40,60 @@ def _git(args: list[str], cwd: Path | None = None) -> bytes:
     return r.stdout
 
 
-def git_documents(rev: str, specs: Path) -> list[tuple[str, bytes]]:
-    """The spec files below ``specs`` at revision ``rev``, read with git, no checkout."""
+class GitFiles:
+    """Measurement files at a git revision, with the checks measure.files.locate makes on
+    a folder: relative to the spec file, inside the specs folder, no symbolic links."""
+
+    def __init__(self, rev: str, specs: Path, blobs: dict[str, str]):
+        self.rev, self.blobs = rev, blobs   # path as listed -> git file mode
+        self.base = posixpath.normpath(PurePosixPath(specs).as_posix())
+
+    def find(self, written: str, spec_file: str) -> str:
+        p = PurePosixPath(written)
+        if p.is_absolute() or written.startswith(("/", "\\")) or (len(written) > 1 and written[1] == ":"):
+            raise PathRefused(f"expected a path relative to the spec file, found the absolute path {written!r}",
+                              "put the file beside the spec, e.g. measurements/lot-2611.csv")
+        target = posixpath.normpath(posixpath.join(posixpath.dirname(spec_file), written))
+        inside = self.base == "." and not target.startswith("../") or target.startswith(self.base + "/")
+        if not inside:
+            raise PathRefused(f"expected a file inside the specs folder, found {written!r} leading out of it",
+                              "measurement files must live under the specs folder")
+        mode = self.blobs.get(target)
+        if mode == "120000":
+            raise PathRefused(f"expected a measurement file, found a symbolic link at {written!r}",
+                              "measurement files must live under the specs folder")
+        if mode is None:
+            raise PathRefused(f"expected a measurement file, found nothing at {written!r} in {self.rev}",
+                              "paths are relative to the spec file")
+        if p.suffix.lower() not in FORMATS:
+            raise PathRefused(f"expected a .csv, .cgats or .txt (CGATS.17) file, found {written!r}")
+        return target
+
+    def read_bytes(self, target: str) -> bytes:
+        return _git(["show", f"{self.rev}:./{target}"])
+
+
+def git_tree(rev: str, specs: Path) -> tuple[list[tuple[str, bytes]], GitFiles]:
+    """The spec files below ``specs`` at ``rev`` and access to the other files there."""
     _git(["rev-parse", "--verify", "--quiet", f"{rev}^{{commit}}"])
-    names = _git(["ls-tree", "-r", "-z", "--name-only", rev, "--", str(specs)]).split(b"\0")
-    out = []
-    for raw in sorted(n for n in names if n):
-        name = raw.decode("utf-8", errors="surrogateescape")
+    entries = _git(["ls-tree", "-r", "-z", rev, "--", str(specs)]).split(b"\0")
+    out, blobs = [], {}
+    for raw in sorted(n for n in entries if n):
+        meta, _, raw_name = raw.partition(b"\t")
+        name = raw_name.decode("utf-8", errors="surrogateescape")
         p = Path(name)
+        blobs[posixpath.normpath(p.as_posix())] = meta.split(b" ")[0].decode()
         if p.suffix not in SPEC_SUFFIXES or any(part.startswith(".") for part in p.parts):
             continue
         out.append((display_path(p), _git(["show", f"{rev}:./{name}"])))
-    return out
+    out.sort()
+    return out, GitFiles(rev, specs, blobs)
 
 
-def _evaluate(documents: list[tuple[str, bytes]] | None, folder: Path | None, label: str) -> list[Evaluated]:
+def _evaluate(documents: list[tuple[str, bytes]] | None, folder: Path | None, label: str,
+              files=None) -> list[Evaluated]:
     try:
-        specs, _ = load_documents(documents) if documents is not None else load_specs(folder)
+        specs, _ = load_documents(documents, files=files) if documents is not None else load_specs(folder)
     except InputError as e:
         raise InputError([Problem(f"{label}:{p.file}" if documents is not None else p.file, p.line, p.col,
                                   p.path, p.message, p.hint, p.severity) for p in e.problems]) from None
@@ -64,7 +104,8 @@ def side(spec: str, rev: str | None = None) -> list[Evaluated]:
     """One side of a diff: a folder (or file), or the specs folder at a git revision."""
     if rev is None:
         return _evaluate(None, Path(spec), spec)
-    return _evaluate(git_documents(rev, Path(spec)), None, rev)
+    documents, files = git_tree(rev, Path(spec))
+    return _evaluate(documents, None, rev, files)
 
 
 # ---------------------------------------------------------------- facets
@@ -98,14 +139,34 @@ def facets(spec) -> dict[str, tuple[str, object]]:
     for g in spec.gamut:
         lim = {k: _num(v) for k, v in (("min", g.min), ("max", g.max)) if v is not None}
         out[f"gamut.{g.reference}.{g.metric}.{g.diagram}"] = ("requirement", _limit_str(lim))
-    for u in spec.units:
-        parts = []
-        if u.white is not None:
-            parts.append(f"white x {u.white.xy[0]:.4f}, y {u.white.xy[1]:.4f}"
-                         + (f", Y {u.white.Y:g}" if u.white.Y is not None else ""))
-        parts += [f"{n} x {m.xy[0]:.4f}, y {m.xy[1]:.4f}" for n, m in sorted(u.primaries.items())]
-        out[f"units.{u.serial}"] = ("unit", "; ".join(parts))
+    if spec.measurements:   # named relative to the spec file, as written
+        here = posixpath.dirname(spec.file) or "."
+        out["measurements"] = ("meta", ", ".join(posixpath.relpath(m, here) for m in spec.measurements))
+    for key, text in _units(spec):
+        out[key] = ("unit", text)
     return out
+
+
+def _units(spec):
+    """(units.SERIAL, its measurements as text) of every unit, inline or from a file."""
+    t = spec.table
+    if t is None or not len(t):
+        return
+    names = ["white"] + sorted(c for c in t.channels if c != "white")
+    cols = {c: t.channels[c].tolist() for c in names if c in t.channels}
+    for i, serial in enumerate(t.serial):
+        parts = []
+        for c in names:
+            if c not in cols:
+                continue
+            x, y, Y = cols[c][i]
+            if math.isnan(x):
+                continue
+            if c == "white":
+                parts.append(f"white x {x:.4f}, y {y:.4f}" + (f", Y {Y:g}" if not math.isnan(Y) else ""))
+            else:
+                parts.append(f"{c} x {x:.4f}, y {y:.4f}")
+        yield f"units.{serial}", "; ".join(parts)
 
 
 def _limit_str(lim: dict) -> str:

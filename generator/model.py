@@ -143,3 +143,64 @@ class Spec:
     digest: str = ""   # sha256 of the spec file's bytes (the incremental build's cache key)
     # the other files the spec was read from (spectra CSV files), as written -> sha256 of their bytes
     input_files: dict[str, str] = field(default_factory=dict, compare=False)
+    table: UnitTable | None = None                           # every measured unit, as columns
+    decision_rule: str = "simple"                            # "simple" | "guard-banded"
+    uncertainty: Uncertainty | None = None
+    uniformity: Uniformity | None = None
+    measurements: list = field(default_factory=list)        # measurement files read, as shown
+    measurement_digests: list = field(default_factory=list)  # sha256 of each one's bytes (cache key)
+
+
+@dataclass
+class UnitTable:
+    """Every measured unit of a spec (inline and from files), as columns.
+
+    ``channels[name]`` is an (n, 3) array of x, y, Y for ``white`` or a primary, NaN where
+    a unit has no measurement of that channel (Y NaN when only chromaticity was given).
+    ``points`` holds the white's measurement points for uniformity: (n, P, 3), NaN-padded,
+    with their labels in ``point_names``.
+    """
+    serial: list[str]
+    lot: list[str]
+    supplier: list[str]
+    source: list[str]                     # "file:line" of each unit's first record
+    channels: dict                        # name -> np.ndarray (n, 3)
+    points: object = None                 # np.ndarray (n, P, 3) or None
+    point_names: tuple = ()
+
+    def __len__(self) -> int:
+        return len(self.serial)
+
+    def measured(self, channel: str):
+        import numpy as np
+
+        c = self.channels.get(channel)
+        return np.zeros(len(self), bool) if c is None else np.isfinite(c[:, 0])
+
+
+@dataclass(frozen=True)
+class Uncertainty:
+    """Expanded uncertainties (coverage factor k = 2) per assessed quantity; a relative
+    value is a fraction of the measured value."""
+    values: tuple = ()       # (quantity, absolute or None, relative or None)
+
+    def of(self, quantity: str, value=None):
+        for q, a, r in self.values:
+            if q == quantity:
+                if r is not None:
+                    import numpy as np
+
+                    return r * np.abs(value) if value is not None else 0.0
+                return a
+        return 0.0
+
+    def as_json(self) -> dict:
+        return {q: ({"relative_percent": r * 100} if r is not None else a) for q, a, r in self.values}
+
+
+@dataclass(frozen=True)
+class Uniformity:
+    centre: str = "C"
+    luminance_min: float | None = None     # percent, min/max x 100
+    colour_max: float | None = None        # largest Δu'v'
+    colour_between: str = "pairs"          # "pairs" | "centre"

@@ -40,6 +40,11 @@ gamut:
 #     green: {{x: 0.3008, y: 0.5990}}
 #     blue:  {{x: 0.1502, y: 0.0604}}
 
+# measurements:              # instrument files beside this spec (CSV or CGATS.17)
+#   - measurements/lot-01.csv
+# decision_rule: guard-banded  # simple (default) or guard-banded (ILAC-G8, w = U)
+# uncertainty: {{xy: 0.002, delta_uv: 0.0015, cct: 30, luminance: '2%'}}   # expanded, k = 2
+
 notes: |
   Why this spec exists and what it is for. *Markdown* is allowed.
 """

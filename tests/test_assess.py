@@ -93,7 +93,9 @@ def test_box_ellipse_region_and_luminance_rows_for_units(spec_dir):
     assert red["verdict"] == "fail" and red["value"]["dx"] == pytest.approx(0.011)
     assert e.assessment.verdict == "fail"
     assert [u["verdict"] for u in e.assessment.units] == ["fail", "fail"]
-    assert e.assessment.lots == [{"lot": "A", "n": 2, "n_fail": 2, "suppliers": [], "verdict": "fail"}]
+    (lot,) = e.assessment.lots
+    assert {k: lot[k] for k in ("lot", "n", "n_fail", "suppliers", "verdict")} == \
+        {"lot": "A", "n": 2, "n_fail": 2, "suppliers": [], "verdict": "fail"}
 
 
 def test_quoted_serials_keep_their_leading_zeros(spec_dir):
@@ -217,3 +219,16 @@ units:
     assert row["value"] == pytest.approx(2.0, abs=1e-9)
     assert row["verdict"] == "fail" and row["unit"] == "steps"
     assert row["limit"]["max"] == 1.5 and row["limit"]["a1"] == pytest.approx(2.55e-3)
+
+
+def test_measured_colours_of_units_are_assessed_and_drawn_with_the_unit_table(spec_dir):
+    from generator.render.diagrams import layer_for
+
+    rows, e = _colour_rows(spec_dir)
+    t = e.assessment.table
+    assert t.serial == ["U1", "U2"]          # units that measured only colours are units too
+    assert {u["serial"]: u["rows"] for u in e.assessment.units} == {
+        "U1": sum(1 for k in rows if k[1] == "U1"), "U2": sum(1 for k in rows if k[1] == "U2")}
+    assert ("colours.teal.delta_e2000", "U2") in rows
+    drawn = [label for label, _, _ in layer_for(e, "xy").units]
+    assert drawn == ["U1 green", "U1 teal", "U2 teal"]

@@ -149,7 +149,8 @@ def test_incremental_demo_build_equals_a_full_build(tmp_path):
         build(specs, tmp_path / "full", incremental=False)
     finally:
         os.chdir(cwd)
-    assert inc.reused == len(inc.evaluated) - 2  # Brisk 14 and the Brisk 16 that extends it are redrawn
+    # brisk-14 and brisk-16 (its child) are drawn again, every other demo spec is reused
+    assert inc.reused == len(inc.evaluated) - 2
     assert files_of(tmp_path / "site") == files_of(tmp_path / "full")
 
 
@@ -204,6 +205,78 @@ def test_the_key_names_the_spectra_files_a_spec_reads(spec_dir, tmp_path, monkey
     (spec_dir.dir / "spectra" / "s.csv").write_text(_red_band(625))
     (spec,), _ = load_specs(spec_dir.dir)
     assert C.spec_key(spec, {"s": spec}) != before
+
+
+MEASURED = """\
+spec: 1
+id: m
+title: Panel m, measured lot
+white:
+  target: D65
+  tolerance: {delta_uv: 0.004}
+primaries:
+  red:   {x: 0.640, y: 0.330}
+  green: {x: 0.300, y: 0.600}
+  blue:  {x: 0.150, y: 0.060}
+measurements:
+  - lots/lot-7.csv
+"""
+
+
+def _lot_csv(white_x: float = 0.3127) -> str:
+    lines = ["serial,lot,supplier,channel,x,y,Y"]
+    for k in range(12):   # enough units for the lot page's diagrams and histograms
+        x = white_x if k == 0 else 0.3127 + 0.0001 * (k % 3)
+        lines.append(f"M{k:02d},L7,Acme Panels,white,{x:.4f},0.3290,{300 + k}")
+        lines.append(f"M{k:02d},L7,Acme Panels,red,0.6400,0.3300,")
+    return "\n".join(lines) + "\n"
+
+
+@pytest.fixture
+def measured(library):
+    library("m.yaml", MEASURED)
+    (library.dir / "lots").mkdir()
+    (library.dir / "lots" / "lot-7.csv").write_text(_lot_csv(), encoding="utf-8")
+    return library
+
+
+def test_lot_and_supplier_pages_come_from_the_cache_and_equal_a_full_build(measured, tmp_path):
+    out, full = tmp_path / "site", tmp_path / "full"
+    build(measured.dir, out)
+    second = build(measured.dir, out)
+    assert second.reused == 5
+    build(measured.dir, full, incremental=False)
+    files = files_of(out)
+    assert {"m/lots/L7.html", "m/suppliers/Acme-Panels.html"} <= set(files)
+    assert any(name.startswith("m/lots/") and name.endswith(".svg") for name in files)
+    assert files == files_of(full)
+
+
+def test_editing_a_measurement_file_redraws_that_spec_with_its_lot_pages(measured, tmp_path):
+    out, full = tmp_path / "site", tmp_path / "full"
+    build(measured.dir, out)
+    before = files_of(out)
+    (measured.dir / "lots" / "lot-7.csv").write_text(_lot_csv(white_x=0.3300), encoding="utf-8")
+    inc = build(measured.dir, out)
+    assert inc.reused == 4   # a, b, c and d are unchanged; only m is drawn again
+    after = files_of(out)
+    for name in ("m/index.html", "m/xy.svg", "m/white.svg", "m/lots/L7.html", "m/suppliers/Acme-Panels.html"):
+        assert after[name] != before[name], name
+    assert all(after[n] == before[n] for n in before if n.startswith(("a/", "d/")))
+    build(measured.dir, full, incremental=False)
+    assert after == files_of(full)
+
+
+def test_the_key_changes_with_the_bytes_of_a_measurement_file(measured):
+    from generator.spec.load import load_specs
+
+    specs, _ = load_specs(measured.dir)
+    by_id = {s.id: s for s in specs}
+    m = by_id["m"]
+    assert m.measurements == [f"{m.file.rsplit('/', 1)[0]}/lots/lot-7.csv"]
+    key = C.spec_key(m, by_id)
+    m.measurement_digests = ["0" * 64]
+    assert C.spec_key(m, by_id) != key
 
 
 def test_a_cached_spec_brings_back_each_diagram_with_its_numbers_and_the_page(library, tmp_path):

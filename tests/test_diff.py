@@ -156,3 +156,52 @@ def test_invalid_spec_at_a_revision_names_the_revision(repo):
     r = run("diff", "--git", "HEAD~1..HEAD", cwd=repo)
     assert r.returncode == 2
     assert "HEAD:specs/corvinta-atlas-27-studio.yaml:" in r.stderr and "status: expected one of" in r.stderr
+
+
+VELA_LOT = "measurements/vela-24/tessaly-lot-TPW-2611A.csv"
+VELA_RED = "VL24-00001,TPW-2611A,Tessaly Panel Works,red,,0.63942,0.32979,57.74"
+
+
+def _move_red(folder):
+    p = folder / VELA_LOT
+    text = p.read_text(encoding="utf-8")
+    assert text.count(VELA_RED) == 1
+    p.write_text(text.replace(VELA_RED, VELA_RED.replace("0.63942", "0.66000")), encoding="utf-8")
+
+
+def test_units_from_measurement_files_are_compared(tmp_path):
+    old, new = tmp_path / "old", tmp_path / "new"
+    shutil.copytree(DEMO_SPECS, old)
+    shutil.copytree(DEMO_SPECS, new)
+    _move_red(new)
+    diffs = D.compare(D.side(str(old)), D.side(str(new)))
+    assert [d.id for d in diffs] == ["corvinta-vela-24-monitor"]
+    d = diffs[0]
+    assert [(c.kind, c.action, c.key) for c in d.changes] == [("unit", "changed", "units.VL24-00001")]
+    assert "red x 0.6394" in d.changes[0].old and "red x 0.6600" in d.changes[0].new
+    assert ("primaries.red.delta_uv", "VL24-00001", "pass", "fail") in {
+        (v.row, v.sample, v.old, v.new) for v in d.verdicts}
+
+
+def test_measurement_files_are_read_at_the_revision(repo):
+    # an uncommitted edit of a lot file changes nothing between two commits ...
+    _move_red(repo / "specs")
+    r = run("diff", "--git", "HEAD~1..HEAD", cwd=repo)
+    assert r.returncode == 0, r.stderr
+    assert "VL24-00001" not in r.stdout
+    # ... and shows against the working folder
+    r = run("diff", "--git", "HEAD..", cwd=repo)
+    assert r.returncode == 0, r.stderr
+    assert "  measured unit changed: units.VL24-00001:" in r.stdout
+
+
+def test_a_measurement_path_leaving_the_specs_folder_is_refused_at_a_revision(repo):
+    (repo / "outside.csv").write_text("serial,channel,x,y\nX1,white,0.3127,0.3290\n", encoding="utf-8")
+    p = repo / "specs" / "corvinta-vela-24-monitor.yaml"
+    p.write_text(p.read_text(encoding="utf-8").replace(f"  - {VELA_LOT}\n", "  - ../outside.csv\n"),
+                 encoding="utf-8")
+    _git(repo, "add", "-A")
+    _git(repo, "commit", "-q", "-m", "read a file outside the specs")
+    r = run("diff", "--git", "HEAD~1..HEAD", cwd=repo)
+    assert r.returncode == 2 and "Traceback" not in r.stderr
+    assert "expected a file inside the specs folder" in r.stderr

@@ -59,8 +59,12 @@ def tags_of(html: str) -> list[tuple[str, dict]]:
 
 
 def test_the_payload_specs_build(payload_site):
-    assert sorted(p.relative_to(payload_site).as_posix() for p in payload_site.rglob("*.html")) == [
-        "index.html", "payload-reference/index.html", "payload/index.html"]
+    pages = sorted(p.relative_to(payload_site).as_posix() for p in payload_site.rglob("*.html"))
+    # the payload units' lots and supplier get pages of their own, named by a safe slug of the text
+    assert pages == ["index.html", "payload-reference/index.html", "payload/index.html", "payload/lots/7-7.html",
+                     "payload/lots/img-src-x-onerror-window.__pwned-lot.html",
+                     "payload/suppliers/td-tr-table-script-window.__pwned-supplier-script.html"]
+    assert all(re.fullmatch(r"[A-Za-z0-9._/-]+", p) for p in pages)
 
 
 def test_no_page_has_a_script_an_event_handler_or_an_unsafe_link(payload_site):

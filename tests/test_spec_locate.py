@@ -124,3 +124,40 @@ def test_gamut_rows_of_one_reference_are_told_apart_by_their_metric(spec_dir):
         return m.line, m.col
     assert at("gamut.srgb.volume.lab") == (13, 39)
     assert at("gamut.srgb.coverage.xy") == (14, 54)
+
+
+MEASURED = """\
+spec: 1
+id: lot-panel
+extends: base-panel
+title: Lot panel
+measurements:
+  - m/first.csv
+  - m/second.csv
+units:
+  - serial: U1
+    white: {x: 0.3127, y: 0.3290}
+"""
+
+
+def test_a_unit_from_a_measurement_file_points_at_its_measurements_entry(spec_dir):
+    from generator.spec.locate import locate_row, unit_files
+
+    spec_dir("base.yaml", PARENT)
+    spec_dir("lot.yaml", MEASURED)
+    (spec_dir.dir / "m").mkdir()
+    spec_dir("m/first.csv", "serial,channel,x,y\nF1,white,0.3127,0.3290\n")
+    spec_dir("m/second.csv", "serial,channel,x,y\nS1,white,0.3127,0.3290\nS2,red,0.640,0.330\n")
+    specs, _ = load_specs(spec_dir.dir)
+    spec = {s.id: s for s in specs}["lot-panel"]
+    files = unit_files(spec)
+    assert files == {"F1": 0, "S1": 1, "S2": 1}
+
+    def at(rid, sample, located=files):
+        m = locate_row(spec.source, {"id": rid, "sample": sample}, located)
+        return m.file.rsplit("/", 1)[-1], m.line, m.col
+    assert at("white.cct", "F1") == ("lot.yaml", 6, 5)
+    assert at("primaries.red.delta_uv", "S2") == ("lot.yaml", 7, 5)
+    assert at("white.cct", "U1") == ("lot.yaml", 10, 5)          # inline units as before
+    # without the file of each unit, the measurements: key itself
+    assert at("white.cct", "S1", None) == ("lot.yaml", 5, 1)

@@ -2,6 +2,7 @@
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from functools import cached_property
 
 import numpy as np
 
@@ -9,9 +10,12 @@ from ..colour.convert import delta_uv_prime, xy_to_uv_prime
 from ..colour.difference import delta_e_76, delta_e_2000
 from ..colour.macadam import macadam_metric, macadam_steps, metric_axes
 from ..colour.region import distance_to_polygon_edges, ellipse_radius, in_polygon
-from ..derive import Derived
+from ..colour.npm import npm_from_primaries
+from ..derive import Derived, volume_figures
 from ..model import Spec, Tolerance
-from .rules import FAIL, SIMPLE, DecisionRule, combine, decide, margin
+from .rules import CODES, FAIL, DecisionRule, combine, decide, margin
+from .stats import lot_statistics
+from .units import Column, unit_columns, unit_rows, unit_verdicts
 
 UNITS = {"delta_uv": "", "cct": "K", "duv": "", "box": "", "ellipse": "", "region": "",
          "luminance": "cd/m2", "coverage": "%", "area-ratio": "%", "volume": "%", "volume-coverage": "%",
@@ -21,11 +25,23 @@ UNITS = {"delta_uv": "", "cct": "K", "duv": "", "box": "", "ellipse": "", "regio
 
 @dataclass
 class Assessment:
-    rows: list[dict]
+    design_rows: list[dict]
     verdict: str
     rule: DecisionRule
     units: list[dict] = field(default_factory=list)   # serial, lot, supplier, verdict, failing
     lots: list[dict] = field(default_factory=list)
+    columns: list = field(default_factory=list)        # units.Column per requirement on units
+    table: object = None                               # model.UnitTable
+    unit_codes: object = None                          # np.ndarray of verdict codes per unit
+    suppliers: list[dict] = field(default_factory=list)
+
+    @cached_property
+    def rows(self) -> list[dict]:
+        """Design rows, then every unit's rows (built from the columns on first use)."""
+        if self.table is None:
+            return list(self.design_rows)
+        return self.design_rows + list(unit_rows(self.columns, self.table,
+                                                 self.rule.uncertainty is not None))
 
 
 def _row(rid, subject, sample, quantity, value, limit, verdict, marg, label, **extra):
@@ -142,12 +158,14 @@ def colour_rows(colour, target_fig, fig, sample, rule, design=False):
     return rows
 
 
-def gamut_rows(spec: Spec, figures, sample, rule):
+def gamut_rows(spec: Spec, figures, sample, rule, volume=None, only_volume=False):
     rows = []
     for g in spec.gamut:
+        if only_volume and not g.metric.startswith("volume"):
+            continue
         if g.metric.startswith("volume"):
             key = "volume_coverage" if g.metric == "volume-coverage" else "volume_ratio"
-            vol = figures.volume if figures is not None else None
+            vol = volume if volume is not None else (figures.volume if figures is not None else None)
             value = (vol or {}).get("vs", {}).get(g.reference, {}).get(key)
         else:
             key = f"{'coverage' if g.metric == 'coverage' else 'area_ratio'}_{g.diagram}"
@@ -171,7 +189,9 @@ def luminance_row(spec: Spec, Y, sample, rule):
                         "white luminance", rule)]
 
 
-def assess(spec: Spec, derived: Derived, rule: DecisionRule = SIMPLE) -> Assessment:
+def assess(spec: Spec, derived: Derived, rule: DecisionRule | None = None) -> Assessment:
+    if rule is None:
+        rule = DecisionRule(spec.decision_rule, spec.uncertainty)
     rows: list[dict] = []
     if spec.white is not None:
         rows += tolerance_rows("white", "white", None, spec.white.tolerance, spec.white.xy, spec.white.xy,
@@ -185,35 +205,110 @@ def assess(spec: Spec, derived: Derived, rule: DecisionRule = SIMPLE) -> Assessm
         fig = derived.colours[c.name]
         rows += colour_rows(c, fig, fig, None, rule, design=True)
 
-    units = []
-    targets = {p.name: p for p in spec.primaries}
-    for u, uf in zip(spec.units, derived.units, strict=True):
-        urows: list[dict] = []
-        if u.white is not None and spec.white is not None:
-            urows += tolerance_rows("white", "white", u.serial, spec.white.tolerance, spec.white.xy,
-                                    u.white.xy, rule, white=uf.white)
-            urows += luminance_row(spec, u.white.Y, u.serial, rule)
-        for name, m in u.primaries.items():
-            p = targets[name]
-            urows += tolerance_rows(f"primaries.{name}", name, u.serial, p.tolerance, p.xy, m.xy, rule)
-        if uf.gamut is not None:
-            urows += gamut_rows(spec, uf.gamut, u.serial, rule)
-        colour_by_name = {c.name: c for c in spec.colours}
-        for name, fig in uf.colours.items():
-            c = colour_by_name[name]
-            urows += colour_rows(c, derived.colours[name], fig, u.serial, rule)
-        for r in urows:
-            r["lot"] = u.lot
-        verdict = combine(r["verdict"] for r in urows) if urows else "pass"
-        units.append({"serial": u.serial, "lot": u.lot, "supplier": u.supplier, "verdict": verdict,
-                      "rows": len(urows), "failing": [r["id"] for r in urows if r["verdict"] == FAIL]})
-        rows += urows
+    table = spec.table
+    cols = unit_columns(spec, table, derived.ref_hulls, rule) if table is not None and len(table) else []
+    if table is not None and len(table):
+        cols += row_columns(spec, derived, table, rule)
+    n = len(table) if table is not None else 0
+    codes = unit_verdicts(cols, n)
+    units, lots, suppliers = summarise(cols, table, codes) if n else ([], [], [])
+    verdicts = [r["verdict"] for r in rows] + [CODES[k] for k in np.unique(codes)]
+    verdict = combine(verdicts) if verdicts else "pass"
+    return Assessment(rows, verdict, rule, units, lots, cols, table, codes, suppliers)
+
+
+def _unit_volume(spec: Spec, table, i, names, volume_refs):
+    """CIELAB volume figures of unit ``i`` of the table from its measured primaries, with its
+    own white where measured, else the white target."""
+    xy = [tuple(table.channels[nm][i, :2]) for nm in names]
+    if not all(np.isfinite(v).all() for v in xy) or spec.white is None:
+        return None
+    W = table.channels.get("white")
+    wxy = tuple(W[i, :2]) if W is not None and np.isfinite(W[i, 0]) else spec.white.xy
+    m = npm_from_primaries(xy, wxy)
+    return volume_figures(m, spec, volume_refs)
+
+
+def row_columns(spec: Spec, derived: Derived, table, rule) -> list:
+    """Columns for the unit requirements built row by row: CIELAB volume and measured
+    indicator colours (inline ``units[].colours``), from the same builders as the design rows."""
+    n = len(table)
+    per_id: dict[str, list] = {}
+    order: list[str] = []
+
+    def add(i, r):
+        if r["id"] not in per_id:
+            per_id[r["id"]] = [None] * n
+            order.append(r["id"])
+        per_id[r["id"]][i] = r
+
+    names = [p.name for p in spec.primaries]
+    vol_gamut = [g for g in spec.gamut if g.metric.startswith("volume")]
+    if vol_gamut and len(names) == 3:
+        volume_refs = {g.reference for g in vol_gamut if g.metric == "volume-coverage"}
+        for i in range(n):
+            vol = _unit_volume(spec, table, i, names, volume_refs)
+            if vol is None:
+                continue
+            for r in gamut_rows(spec, None, table.serial[i], rule, volume=vol, only_volume=True):
+                add(i, r)
+    if derived.unit_colours:
+        by_name = {c.name: c for c in spec.colours}
+        index = {}
+        for i, s in enumerate(table.serial):
+            index.setdefault(s, i)
+        for serial, figs in derived.unit_colours.items():
+            i = index.get(serial)
+            if i is None:
+                continue
+            for name, fig in figs.items():
+                for r in colour_rows(by_name[name], derived.colours[name], fig, serial, rule):
+                    add(i, r)
+    cols = []
+    for rid in order:
+        rs = per_id[rid]
+        first = next(r for r in rs if r is not None)
+        code = np.array([-1 if r is None else CODES.index(r["verdict"]) for r in rs], np.int8)
+        value = np.array([r["value"] if r is not None and isinstance(r["value"], (int, float))
+                          and r["value"] is not None else np.nan for r in rs], float)
+        marg = np.array([r["margin"] if r is not None and r["margin"] is not None else np.nan for r in rs],
+                        float)
+        lo, hi = first["limit"].get("min"), first["limit"].get("max")
+        form = "two-sided" if lo is not None and hi is not None else ("upper" if hi is not None else "lower")
+        cols.append(Column(rid, first["subject"], first["quantity"], first["label"], first["limit"], value,
+                           code, marg, rule.U(first["quantity"]), lo=lo, hi=hi, stat_form=form, rows=rs))
+    return cols
+def summarise(cols, table, codes):
+    """Unit entries, lots with statistics, and suppliers, from the columns."""
+    failing = [[] for _ in range(len(table))]
+    n_rows = np.zeros(len(table), int)
+    for c in cols:
+        n_rows += c.code >= 0
+        for i in np.flatnonzero(c.code == 2):
+            failing[i].append(c.id)
+    units = [{"serial": s, "lot": lot, "supplier": sup, "verdict": CODES[k], "rows": int(nr), "failing": f,
+              "source": src}
+             for s, lot, sup, k, nr, f, src in zip(table.serial, table.lot, table.supplier, codes.tolist(),
+                                                    n_rows.tolist(), failing, table.source)]
+    lot_arr = np.array(table.lot, dtype=object)
+    sup_arr = np.array(table.supplier, dtype=object)
     lots = []
-    for lot in sorted({u["lot"] for u in units if u["lot"]}):
-        members = [u for u in units if u["lot"] == lot]
-        lots.append({"lot": lot, "n": len(members),
-                     "n_fail": sum(u["verdict"] == FAIL for u in members),
-                     "suppliers": sorted({u["supplier"] for u in members if u["supplier"]}),
-                     "verdict": combine(u["verdict"] for u in members)})
-    verdict = combine(r["verdict"] for r in rows) if rows else "pass"
-    return Assessment(rows, verdict, rule, units, lots)
+    for lot in sorted({x for x in table.lot if x}):
+        members = np.flatnonzero(lot_arr == lot)
+        k = codes[members]
+        lots.append({"lot": lot, "n": int(members.size), "n_fail": int(np.sum(k == 2)),
+                     "suppliers": sorted({sup_arr[i] for i in members if sup_arr[i]}),
+                     "verdict": CODES[int(k.max())], "n_pass": int(np.sum(k == 0)),
+                     "n_indeterminate": int(np.sum(k == 1)),
+                     "fail_percent": 100.0 * float(np.mean(k == 2)),
+                     "statistics": lot_statistics(cols, table, members)})
+    suppliers = []
+    for sup in sorted({x for x in table.supplier if x}):
+        members = np.flatnonzero(sup_arr == sup)
+        k = codes[members]
+        suppliers.append({"supplier": sup, "n": int(members.size), "n_fail": int(np.sum(k == 2)),
+                          "n_indeterminate": int(np.sum(k == 1)), "n_pass": int(np.sum(k == 0)),
+                          "lots": sorted({table.lot[i] for i in members if table.lot[i]}),
+                          "verdict": CODES[int(k.max())]})
+    return units, lots, suppliers
+

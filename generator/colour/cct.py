@@ -52,13 +52,26 @@ def cct_duv_from_uv(uv):
     return cct.reshape(shape), duv.reshape(shape)
 
 
+_COARSE = 16
+
+
+def _nearest_node(p, uv_tab):
+    """Index of the table node nearest to each point: a search on every 16th node, then on
+    the nodes around the coarse winner (the same node as a full search wherever the
+    distance along the locus has one minimum within 32 nodes, i.e. near the locus)."""
+    coarse = uv_tab[::_COARSE]
+    i0 = np.argmin(((p[:, None, :] - coarse[None, :, :]) ** 2).sum(axis=-1), axis=1) * _COARSE
+    win = np.clip(i0[:, None] + np.arange(-2 * _COARSE, 2 * _COARSE + 1)[None, :], 0, len(uv_tab) - 1)
+    d2 = ((p[:, None, :] - uv_tab[win]) ** 2).sum(axis=-1)
+    return win[np.arange(len(p)), np.argmin(d2, axis=1)]
+
+
 def _nearest_planckian(flat, idx_ok, T_tab, uv_tab, cct, duv):
     """Fill cct/duv at the rows idx_ok of flat (n, 2) in place, in chunks."""
     for start in range(0, idx_ok.size, _CHUNK):
         sel = idx_ok[start:start + _CHUNK]
         p = flat[sel]
-        d2 = ((p[:, None, :] - uv_tab[None, :, :]) ** 2).sum(axis=-1)
-        T = T_tab[np.argmin(d2, axis=1)]
+        T = T_tab[_nearest_node(p, uv_tab)]
         for _ in range(_NEWTON_STEPS):
             q, dq, d2q = planck_uv(T, derivatives=True)
             r = q - p
@@ -66,6 +79,8 @@ def _nearest_planckian(flat, idx_ok, T_tab, uv_tab, cct, duv):
             fp = (dq * dq).sum(axis=-1) + (r * d2q).sum(axis=-1)
             step = np.where(fp > 0, f / fp, 0.0)
             T = np.clip(T - step, T_MIN * 0.999, T_MAX * 1.001)
+            if np.all(np.abs(step) <= 1e-10 * T):   # converged (quadratically) for every point
+                break
         q = planck_uv(T)
         dist = np.hypot(*(p - q).T)
         sign = np.where(p[:, 1] >= q[:, 1], 1.0, -1.0)

@@ -1,1 +1,1 @@
-"""Reading supplier data files (spectra)."""
+"""Reading supplier data: spectra, and instrument files (CSV, CGATS.17) into measurement records."""

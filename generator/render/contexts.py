@@ -37,9 +37,15 @@ class SpecContext(Base):
     failing_more: int
     figures: list[FigureView]
     design_rows: list[dict]
-    units: list[dict]
-    unit_rows: list[dict]
-    lots: list[dict]
+    units: list[dict]   # the units listed (the least passing first when there are many): serial, lot,
+                        # supplier, verdict, symbol, failing (text), rows, source
+    n_units: int        # every measured unit, inline and from measurement files
+    unit_rows: list[dict]  # the first MAX_UNIT_ROWS unit requirement rows (pages.row_view)
+    n_unit_rows: int
+    lots: list[dict]    # lot, n, n_fail, n_indeterminate, n_pass, suppliers, verdict, symbol, page (lots/PAGE.html)
+    suppliers: list[dict]  # supplier, n, n_fail, n_indeterminate, lots, verdict, symbol, page
+    measurements: list[str]  # measurement files read, as shown
+    decision: str       # the decision rule in words (pages.decision_text)
     white: dict | None  # written, x, y, u, v, cct, duv, swatch (#rrggbb preview)
     primaries: list[dict]
     colours: list[dict]  # name, written, note, x, y, Y, L, a, b, dominant, complementary, purity, swatch,

@@ -45,9 +45,53 @@ def tolerance_shapes(tol, centre_xy, label):
     return shapes
 
 
-def layer_for(e, which: str) -> F.Layer:
+MAX_PLOTTED = 1500   # units drawn per diagram: every unit that does not pass, then passing ones evenly
+
+
+def plotted_units(e, members=None) -> np.ndarray:
+    """Indices of the units a diagram shows (all of them up to MAX_PLOTTED)."""
+    a = e.assessment
+    n = len(a.table) if a.table is not None else 0
+    idx = np.arange(n) if members is None else np.asarray(members)
+    if idx.size <= MAX_PLOTTED:
+        return idx
+    codes = a.unit_codes[idx]
+    bad, good = idx[codes > 0], idx[codes == 0]
+    room = max(0, MAX_PLOTTED - bad.size)
+    keep = good[np.linspace(0, good.size - 1, room).astype(int)] if room and good.size else good[:0]
+    return np.sort(np.concatenate([bad[:MAX_PLOTTED], keep]))
+
+
+def _unit_points(e, channels, idx, after=()):
+    """(serial and channel, (x, y), verdict) of each measured channel of the units ``idx``,
+    inline or from measurement files; the measured colours of inline units (``units[].colours``)
+    come after ``channels``, then the channels in ``after``."""
+    a, t = e.assessment, e.assessment.table
+    colours = {}
+    if after or channels != ["white"]:
+        for u in e.spec.units:
+            if u.colours:
+                colours.setdefault(u.serial, u.colours)
+    out = []
+    for i in idx.tolist():
+        v = ("pass", "indeterminate", "fail")[a.unit_codes[i]]
+        for c in channels:
+            m = t.channels[c][i]
+            if np.isfinite(m[0]):
+                out.append((f"{t.serial[i]} {c}", (float(m[0]), float(m[1])), v))
+        for name, m in colours.get(t.serial[i], {}).items():
+            out.append((f"{t.serial[i]} {name}", tuple(m.xy), v))
+        for c in after:
+            m = t.channels[c][i]
+            if np.isfinite(m[0]):
+                out.append((f"{t.serial[i]} {c}", (float(m[0]), float(m[1])), v))
+    return out
+
+
+def layer_for(e, which: str, members=None, title_suffix: str = "") -> F.Layer:
+    """A diagram's layer; ``members`` limits the units to those indices (a lot's page)."""
     spec = e.spec
-    unit_verdicts = {u["serial"]: u["verdict"] for u in e.assessment.units}
+    idx = plotted_units(e, members)
     shown = []
     for g in spec.gamut:
         if g.reference not in shown:
@@ -55,8 +99,9 @@ def layer_for(e, which: str) -> F.Layer:
     refs = [(spec.references[key].title, e.derived.ref_hulls[key][0]) for key in shown]
     if which == "white":
         tol = tolerance_shapes(spec.white.tolerance, spec.white.xy, "white")
-        units = [(f"{u.serial} white", u.white.xy, unit_verdicts[u.serial]) for u in spec.units if u.white is not None]
-        return F.Layer("White point, CIE 1976 u'v'", None, [], spec.white.xy, [], tol, units, spec.observer)
+        units = _unit_points(e, ["white"], idx)
+        return F.Layer("White point, CIE 1976 u'v'" + title_suffix, None, [], spec.white.xy, [], tol, units,
+                       spec.observer)
     tol = []
     for p in spec.primaries:
         tol += tolerance_shapes(p.tolerance, p.xy, p.name)
@@ -64,17 +109,11 @@ def layer_for(e, which: str) -> F.Layer:
         tol += [t for t in tolerance_shapes(spec.white.tolerance, spec.white.xy, "white") if "CCT" not in t[0]]
     for c in spec.colours:
         tol += tolerance_shapes(c.tolerance, c.xy, c.name)
-    units = []
-    for u in spec.units:
-        for name, m in u.primaries.items():
-            units.append((f"{u.serial} {name}", m.xy, unit_verdicts[u.serial]))
-        for name, m in u.colours.items():
-            units.append((f"{u.serial} {name}", m.xy, unit_verdicts[u.serial]))
-        if u.white is not None:
-            units.append((f"{u.serial} white", u.white.xy, unit_verdicts[u.serial]))
+    units = _unit_points(e, [p.name for p in spec.primaries], idx, after=["white"])
     gamut = e.derived.gamut.hull_xy if e.derived.gamut is not None else None
     title = "CIE 1931 xy chromaticity diagram" if which == "xy" else "CIE 1976 u'v' chromaticity diagram"
-    return F.Layer(title, gamut, [(p.name, p.xy) for p in spec.primaries] + [(c.name, c.xy) for c in spec.colours],
+    return F.Layer(title + title_suffix, gamut,
+                   [(p.name, p.xy) for p in spec.primaries] + [(c.name, c.xy) for c in spec.colours],
                    spec.white.xy if spec.white else None, refs, tol, units, spec.observer)
 
 
@@ -125,10 +164,15 @@ def _data_csv(which, rows) -> str:
     return buf.getvalue()
 
 
+def _n_units(e) -> int:
+    return len(e.assessment.table) if e.assessment.table is not None else 0
+
+
 def _alt(e, which) -> str:
     spec = e.spec
     if which == "white":
-        n = sum(u.white is not None for u in spec.units)
+        t = e.assessment.table
+        n = int(t.measured("white").sum()) if t is not None else 0
         return (f"White target at x {spec.white.xy[0]:.4f}, y {spec.white.xy[1]:.4f} in CIE 1976 u'v' with the "
                 f"Planckian locus, isotherms, lines of constant Duv and the tolerance drawn to scale; "
                 f"{n} measured unit whites marked by verdict. The numbers are in the table beside it.")
@@ -138,7 +182,7 @@ def _alt(e, which) -> str:
     d = "CIE 1931 xy" if which == "xy" else "CIE 1976 u'v'"
     return (f"{d} diagram with the spectral locus (filled with approximate colours) and the Planckian locus; "
             f"spec primaries {names}; {colours}reference gamuts: {refs}; tolerance regions to scale; "
-            f"{len(spec.units)} measured units marked by verdict. The numbers are in the table beside it.")
+            f"{_n_units(e)} measured units marked by verdict. The numbers are in the table beside it.")
 
 
 SHOWN_WIDTH = 504  # CSS pixels on the page

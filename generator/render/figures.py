@@ -342,6 +342,34 @@ def white_closeup(layer: Layer, span: float = 0.02):
     return fig, ax
 
 
+def histogram(values, lo, hi, guard, title: str, xlabel: str, bins: int = 30):
+    """Histogram of one quantity over a lot with its limits (solid) and, where a guard band
+    applies, the acceptance limits narrowed by it (dashed)."""
+    v = np.asarray(values, dtype=float)
+    v = v[np.isfinite(v)]
+    fig, ax = plt.subplots(figsize=(5.2, 2.8))
+    edges = [x for x in (lo, hi) if x is not None]
+    span = np.concatenate([v, edges]) if v.size or edges else np.zeros(1)
+    a, b = float(span.min()), float(span.max())
+    pad = (b - a) * 0.08 or max(abs(a) * 0.01, 1e-6)
+    ax.hist(v, bins=np.linspace(a - pad, b + pad, bins + 1), color="#9bb7e6", edgecolor="#0b57d0", lw=0.5,
+            label=f"units (n = {v.size})")
+    for x, name in ((lo, "lower limit"), (hi, "upper limit")):
+        if x is not None:
+            ax.axvline(x, color=PALETTE["tolerance"], lw=1.4, label=name)
+    if guard:
+        for x, sign in ((lo, 1), (hi, -1)):
+            if x is not None:
+                ax.axvline(x + sign * guard, color=PALETTE["tolerance"], lw=0.9, ls="--",
+                           label="acceptance limit (limit − U)" if sign < 0 else "acceptance limit (limit + U)")
+    ax.set(xlabel=xlabel, ylabel="units")
+    ax.set_title(title, fontsize=9)
+    ax.grid(color=PALETTE["grid"], lw=0.4)
+    ax.legend(fontsize=6.5, frameon=True, loc="best")
+    fig.tight_layout()
+    return fig, ax
+
+
 def _xml(text: str) -> str:
     return text.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;").replace('"', "&quot;")
 

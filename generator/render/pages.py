@@ -56,7 +56,8 @@ _DIGITS = {"cct": 0, "duv": 4, "delta_uv": 4, "box": 4, "ellipse": 2, "region": 
            "luminance": 1, "coverage": 1, "area-ratio": 1, "volume": 1, "volume-coverage": 1,
            "delta_e2000": 2, "delta_e76": 2,
            "dominant_wavelength": 1, "excitation_purity": 3,
-           "macadam_steps": 2}
+           "macadam_steps": 2,
+           "luminance_uniformity": 1, "colour_uniformity": 4}
 
 
 def limit_text(row) -> str:
@@ -163,7 +164,11 @@ def methods(spec) -> list[tuple[str, str]]:
                   "area; area ratio = gamut area / reference area; both computed in the stated diagram"),
         ("RGB to XYZ", "normalized primary matrix, SMPTE RP 177-1993, white Y = 1"),
         ("Dominant wavelength", "CIE 15:2004 §9.1, relative to the spec's white target"),
-        ("Decision rule", "simple acceptance (ILAC-G8:09/2019 §4.2.1): limits inclusive"),
+        ("Decision rule", decision_text(spec)),
+        ("Lot statistics", "sample standard deviation (n − 1); Cp = (USL − LSL) / 6s and Cpk = min(USL − mean, "
+                           "mean − LSL) / 3s for two-sided limits, the one side for one-sided limits; a radial "
+                           "limit (Δu'v' ≤ r, an ellipse, a region) is taken as one-sided upper: Cpk = (r − mean) / 3s "
+                           "(Montgomery, Introduction to Statistical Quality Control, §8.3)"),
         ("Tolerance regions", "drawn to scale in the diagrams: Δu'v' circles in CIE 1976 u'v', boxes, ellipses "
                               "and regions in CIE 1931 xy, CCT × Duv quadrangles bounded by isotherms and lines "
                               "of constant Duv"),
@@ -171,6 +176,28 @@ def methods(spec) -> list[tuple[str, str]]:
                                       "out-of-gamut colours clipped); they show where colours lie, not how a "
                                       "product looks, and take no part in any verdict"),
     ]
+
+
+_U_UNITS = {"cct": " K", "luminance": " cd/m²", "coverage": " percentage points",
+            "luminance_uniformity": " percentage points"}
+
+
+def uncertainty_text(spec) -> str:
+    u = spec.uncertainty
+    if u is None or not u.values:
+        return "no measurement uncertainty stated (U = 0)"
+    parts = [f"{q} {r * 100:g} % of the value" if r is not None else f"{q} {a:g}{_U_UNITS.get(q, '')}"
+             for q, a, r in u.values]
+    return "expanded uncertainty U (k = 2): " + "; ".join(parts)
+
+
+def decision_text(spec) -> str:
+    if spec.decision_rule == "guard-banded":
+        rule = ("guard-banded acceptance, w = U (ILAC-G8:09/2019 §4.2.2-4.2.3): pass inside the limits "
+                "narrowed by U, fail outside the limits widened by U, indeterminate between")
+    else:
+        rule = "simple acceptance (ILAC-G8:09/2019 §4.2.1): limits inclusive, guard band w = 0"
+    return f"{rule}; {uncertainty_text(spec)}"
 
 
 def illuminant_source(name: str) -> str:

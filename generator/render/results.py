@@ -19,10 +19,13 @@ def spec_result(spec, derived, assessment) -> dict:
         "extends": spec.extends or None,
         "verdict": assessment.verdict,
         "decision_rule": assessment.rule.name,
+        "decision": assessment.rule.as_json(),
+        "measurements": list(spec.measurements),
         "derived": derived.as_json(),
         "requirements": rows,
         "units": assessment.units,
         "lots": assessment.lots,
+        "suppliers": assessment.suppliers,
         "warnings": [w.as_json() for w in spec.warnings],
     }
 

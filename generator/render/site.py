@@ -7,13 +7,23 @@ from __future__ import annotations
 
 import json
 
+import numpy as np
+
 from ..publish import SiteFiles
 from .contexts import IndexContext, SpecContext
-from .pages import CAUTION, CAUTION_CATEGORIES, environment, fmt, methods, render_markdown, row_view, templates_dir
+from .lots import _units_view, lot_pages, page_names
+from .pages import (CAUTION, CAUTION_CATEGORIES, decision_text, environment, fmt, methods, render_markdown,
+                    row_view, templates_dir)
 from .results import dumps
 from .swatch import swatch_hex
 
 SYMBOLS = {"pass": "✓", "fail": "✗", "indeterminate": "?"}
+MAX_UNIT_ROWS = 3000   # unit rows listed on a spec page; results.json has all
+
+
+def n_units(e) -> int:
+    """Every measured unit of a spec: inline and from its measurement files."""
+    return len(e.assessment.table) if e.assessment.table is not None else 0
 
 
 def canonical(site_url: str | None, path: str) -> str:
@@ -61,6 +71,8 @@ def spec_context(e, figs, site_url: str | None = None, history=None) -> SpecCont
     spec, d, a = e.spec, e.derived, e.assessment
     rows = [row_view(r) for r in a.rows]
     design = [r for r in rows if r["sample"] is None]
+    unit_rows = [r for r in rows if r["sample"] is not None]
+    lot_names, sup_names = page_names(a)
     failing = [dict(r, what=_what(r)) for r in rows if r["verdict"] != "pass"]
     white = None
     if d.white:
@@ -123,9 +135,13 @@ def spec_context(e, figs, site_url: str | None = None, history=None) -> SpecCont
                                           "width", "height")}
                     for f in figs],
         "design_rows": design,
-        "units": [dict(u, failing=", ".join(u["failing"]), symbol=SYMBOLS[u["verdict"]]) for u in a.units],
-        "unit_rows": [r for r in rows if r["sample"] is not None],
-        "lots": [dict(lot, symbol=SYMBOLS[lot["verdict"]]) for lot in a.lots],
+        "units": _units_view(a, np.arange(n_units(e))) if n_units(e) else [],
+        "n_units": n_units(e),
+        "unit_rows": unit_rows[:MAX_UNIT_ROWS], "n_unit_rows": len(unit_rows),
+        "lots": [dict(lot, page=lot_names[lot["lot"]], symbol=SYMBOLS[lot["verdict"]]) for lot in a.lots],
+        "suppliers": [dict(s, page=sup_names[s["supplier"]], symbol=SYMBOLS[s["verdict"]]) for s in a.suppliers],
+        "measurements": spec.measurements,
+        "decision": decision_text(spec),
         "white": white, "primaries": prims, "colours": colours, "spectra": spectra, "gamut": gamut,
         "npm": npm, "npm_inverse": npm_inv,
         "notes_html": render_markdown(spec.notes) if spec.notes else "",
@@ -172,7 +188,7 @@ def index_context(evaluated, site_url: str | None = None) -> IndexContext:
                 "symbol": SYMBOLS[a.verdict], "key_figures": keys,
                 "cct": fmt(d.white["cct_K"], 0) + " K" if d.white else "—",
                 "duv": fmt(d.white["duv"], 4) if d.white else "—",
-                "n_units": len(s.units),
+                "n_units": n_units(e),
                 "n_fail": sum(u["verdict"] == "fail" for u in a.units)}
         item["search"] = " ".join([s.id, s.title, s.product, family, s.revision, s.status, a.verdict, *keys]).lower()
         items.append(item)
@@ -190,7 +206,8 @@ def index_context(evaluated, site_url: str | None = None) -> IndexContext:
 
 def spec_files(e, env, history=None, site_url: str | None = None, reload: bool = False) -> dict[str, bytes]:
     """The costly part of a spec's output (name -> bytes): each diagram's SVG with its
-    numbers as CSV and JSON, and the page."""
+    numbers as CSV and JSON, the page, and its lot and supplier pages with their diagrams
+    and histograms."""
     from .diagrams import spec_figures  # imported only when a figure is drawn (matplotlib is slow to load)
 
     figs = spec_figures(e)
@@ -202,6 +219,8 @@ def spec_files(e, env, history=None, site_url: str | None = None, reload: bool =
     ctx = spec_context(e, figs, site_url, history)
     ctx["reload"] = reload
     files["index.html"] = env.get_template("spec.html").render(**ctx).encode("utf-8")
+    for path, content in lot_pages(e, env, decision_text(e.spec), site_url, reload):
+        files[path] = content.encode("utf-8") if isinstance(content, str) else content
     return files
 
 

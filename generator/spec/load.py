@@ -191,18 +191,24 @@ def apply_inheritance(sources: list[SourceSpec], problems: Problems) -> dict[str
 
 def load_specs(specs: Path):
     """Return (list of Spec, warnings) or raise InputError with every problem found."""
+    from ..measure.files import FolderFiles
+
     problems = Problems()
-    files = discover(specs, problems)
-    documents = read_files(files, problems, specs)
-    folders = {display_path(path, specs): path.parent for path in files}
-    return load_documents(documents, problems, folders)
+    paths = discover(specs, problems)
+    documents = read_files(paths, problems, specs)
+    files = FolderFiles(specs if specs.is_dir() else specs.parent, {display_path(p, specs): p for p in paths})
+    return load_documents(documents, problems, files)
 
 
-def load_documents(documents: list[tuple[str, bytes]], problems: Problems | None = None,
+def load_documents(documents: list[tuple[str, bytes]], problems: Problems | None = None, files=None,
                    folders: dict[str, Path] | None = None):
     """load_specs for files already in memory, e.g. read from a git revision: a list of
-    (file name as shown to people, bytes). ``folders`` gives the folder on disk of each
-    shown name (where its spectra files are read); by default the shown name's folder."""
+    (file name as shown to people, bytes). ``files`` finds and reads the measurement files
+    the specs name (``measure.files.FolderFiles``); without it, naming one is an error.
+    ``folders`` gives the folder on disk of each shown name (where its spectra files are
+    read); by default that of the spec's real path in ``files``, else the shown name's folder."""
+    if folders is None:
+        folders = {shown: p.parent for shown, p in getattr(files, "spec_paths", {}).items()}
     import hashlib
 
     from .resolve import resolve_spec
@@ -222,7 +228,7 @@ def load_documents(documents: list[tuple[str, bytes]], problems: Problems | None
     result = []
     by_id = {v["id"]: v for (_, _, v) in values.values()}
     for file, (_, node, v) in values.items():
-        spec = resolve_spec(file, node, v, by_id, problems, (folders or {}).get(file))
+        spec = resolve_spec(file, node, v, by_id, problems, (folders or {}).get(file), files)
         if spec is not None:
             spec.source = node
             spec.digest = digests.get(file, "")

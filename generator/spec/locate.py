@@ -64,8 +64,25 @@ def _gamut_item(gam: Seq, reference: str, metric: str):
     return same[0] if same else None
 
 
-def locate_row(root: Map | None, row: dict) -> Mark | None:
-    """The mark of the spec key that set this row's limit (or of the measured unit)."""
+def unit_files(spec) -> dict[str, int]:
+    """Serial -> index of the ``measurements:`` entry whose file a unit came from (units
+    written inline under ``units:`` are not listed)."""
+    t = getattr(spec, "table", None)
+    if t is None or not spec.measurements:
+        return {}
+    index = {name: i for i, name in enumerate(spec.measurements)}
+    out = {}
+    for serial, src in zip(t.serial, t.source, strict=True):
+        i = index.get(src.rsplit(":", 1)[0])
+        if i is not None:
+            out.setdefault(serial, i)
+    return out
+
+
+def locate_row(root: Map | None, row: dict, files: dict[str, int] | None = None) -> Mark | None:
+    """The mark of the spec key that set this row's limit (or of the measured unit). A unit
+    read from a measurement file is located at its ``measurements:`` entry (``files``, from
+    ``unit_files``), or at the ``measurements:`` key when the entry is not known."""
     if not isinstance(root, Map):
         return None
     parts = row["id"].split(".")
@@ -73,7 +90,11 @@ def locate_row(root: Map | None, row: dict) -> Mark | None:
         units = root.items.get("units")
         unit = _find_item(units, "serial", row["sample"]) if isinstance(units, Seq) else None
         if unit is None:
-            return root.mark
+            meas = root.items.get("measurements")
+            i = (files or {}).get(row["sample"])
+            if isinstance(meas, Seq) and i is not None and i < len(meas.items):
+                return meas.items[i].mark
+            return root.key_marks.get("measurements", root.mark)
         if parts[0] == "colours" and len(parts) > 1:   # units carry measured colours by name
             cols = unit.items.get("colours")
             if isinstance(cols, Map) and parts[1] in cols.items:

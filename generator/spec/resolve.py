@@ -31,6 +31,7 @@ from ..model import (
     White,
 )
 from .problems import Problems, did_you_mean
+from .measured import measured_table, uncertainty_of, uniformity_of
 from .schema import RESERVED_COLOUR_NAMES, RESERVED_PRIMARY_NAMES, UNIT_KEYS
 from .yamlnodes import Map, Mark, Node, Seq
 
@@ -266,7 +267,7 @@ def _reference_from_spec(other: dict) -> ReferenceGamut | None:
 
 
 def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems,
-                 folder: Path | None = None) -> Spec | None:
+                 folder: Path | None = None, files=None) -> Spec | None:
     observer = v.get("observer", "cie1931-2")
     r = _Resolver(file, node, problems, observer, folder)
 
@@ -333,6 +334,7 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems,
     declared_colours = [k for k in v.get("colours", {}) if k not in RESERVED_COLOUR_NAMES]
 
     units = []
+    unit_lines = []
     names = [n for n in pv if n not in RESERVED_PRIMARY_NAMES]  # declared, even if one failed a check
     seen_serials: dict[str, int] = {}
     for i, u in enumerate(v.get("units", [])):
@@ -371,10 +373,22 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems,
                 col_m[cname] = mm
         units.append(Unit(serial, u.get("lot", ""), u.get("supplier", ""), white_m, prim_m, u.get("notes", ""),
                           col_m))
+        unit_lines.append(mark_at(node, ["units", i]).line)
+
+    uniformity = uniformity_of(v)
+    if files is None:
+        from ..measure.files import NoFiles
+
+        files = NoFiles()
+    table, shown_files, digests = measured_table(r, v, node, files, units, unit_lines, names, observer,
+                                  uniformity.centre if uniformity else "C",
+                                  (LOCUS_TOLERANCE, MEASURED_LOCUS_LIMIT))
+    if table is not None:
+        _add_colour_only_units(table, file, units, unit_lines)
 
     if not r.ok:
         return None
-    warnings = [p for p in problems.warnings if p.file == file]
+    warnings = [p for p in problems.warnings if p.file == file or p.file in shown_files]
     return Spec(
         id=v["id"], file=file, title=v.get("title", v["id"]), product=v.get("product", ""),
         family=v.get("family", ""), category=v.get("category", "display"),
@@ -382,7 +396,30 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems,
         extends=v.get("extends", ""), owner=v.get("owner", ""), notes=v.get("notes", ""),
         white=white, primaries=primaries, gamut=gamut, units=units, references=references, colours=colours,
         spectra=[r.spectra[k] for k in sorted(r.spectra, key=_spectrum_order)],
-        inherited=dict(node.inherited), warnings=warnings, input_files=dict(sorted(r.files.items())))
+        inherited=dict(node.inherited), warnings=warnings, input_files=dict(sorted(r.files.items())),
+        table=table, decision_rule=v.get("decision_rule", "simple"), uncertainty=uncertainty_of(v),
+        uniformity=uniformity, measurements=shown_files, measurement_digests=digests)
+
+
+def _add_colour_only_units(table, file: str, units: list[Unit], lines: list[int]) -> None:
+    """Inline units that measured only colours (``units[].colours``) have no white or primary
+    records; they are units all the same, with no channel measured."""
+    have = set(table.serial)
+    extra = [(u, line) for u, line in zip(units, lines) if u.colours and u.serial not in have]
+    if not extra:
+        return
+    for u, line in extra:
+        have.add(u.serial)
+        table.serial.append(u.serial)
+        table.lot.append(u.lot)
+        table.supplier.append(u.supplier)
+        table.source.append(f"{file}:{line}")
+    k = len(extra)
+    for name, arr in list(table.channels.items()):
+        table.channels[name] = np.concatenate([arr, np.full((k, 3), np.nan)])
+    if table.points is not None:
+        P = table.points
+        table.points = np.concatenate([P, np.full((k,) + P.shape[1:], np.nan)])
 
 
 def _check_gamut_shape(r: _Resolver, names: list[str], primaries: list[Primary], white: White | None) -> None:

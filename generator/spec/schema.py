@@ -341,6 +341,65 @@ UNIT = Record({
     extra=MEASURED, extra_key=NAME,
     extra_help="other keys are measured primaries and must match a primary's name")
 
+UNCERTAINTY_QUANTITIES = {
+    "xy": "x and y, for box, ellipse and region limits (an ellipse's radius takes U / b)",
+    "delta_uv": "Δu'v' from a target",
+    "cct": "correlated colour temperature, K",
+    "duv": "Duv",
+    "luminance": "luminance, cd/m², or a percentage of the measured value such as '2%'",
+    "coverage": "gamut coverage and area ratio, percentage points",
+    "luminance_uniformity": "luminance uniformity, percentage points",
+    "colour_uniformity": "colour uniformity, Δu'v'",
+}
+
+
+def _uncertainty_value(node, path, problems):
+    from .types import Scalar, describe
+
+    if isinstance(node, Scalar) and node.text.strip().endswith("%"):
+        t = node.text.strip()[:-1].strip()
+        try:
+            f = float(t)
+        except ValueError:
+            f = float("nan")
+        if not (f == f) or f < 0 or f > 100:
+            problems.error(node.mark, path, f"expected a percentage between 0 and 100, found {describe(node)}")
+            return INVALID
+        return {"relative": f / 100.0}
+    v = Number(minimum=0.0).check(node, path, problems)
+    return INVALID if v is INVALID else {"absolute": v}
+
+
+UNCERTAINTY_VALUE = Custom(_uncertainty_value,
+                           {"oneOf": [{"type": "number", "minimum": 0},
+                                      {"type": "string", "pattern": "^[0-9.]+ ?%$"}]},
+                           "expanded uncertainty U (k = 2) in the quantity's unit, or a percentage",
+                           "a number, or a percentage such as '2%'")
+
+UNCERTAINTY = Record({q: Field(UNCERTAINTY_VALUE, description=d) for q, d in UNCERTAINTY_QUANTITIES.items()},
+                     "expanded measurement uncertainty U (coverage factor k = 2) per quantity; "
+                     "quantities not named have U = 0")
+
+UNIFORMITY = Record({
+    "centre": Field(Text("label of the centre measurement point; its values are the unit's white "
+                         "(default C)")),
+    "luminance": Field(Record({"min": Field(Number("lowest allowed min/max luminance ratio, percent",
+                                                   minimum=0.0, maximum=100.0, unit="%"), True)},
+                              "luminance uniformity: lowest point over highest point, percent"),
+                       description="luminance uniformity limit: {min: percent}"),
+    "colour": Field(Record({
+        "max": Field(Number("largest allowed Δu'v'", exclusive_minimum=0.0), True),
+        "between": Field(Text("pairs: largest Δu'v' between any two points; centre: largest from the "
+                              "centre point (default pairs)", choices=("pairs", "centre"))),
+    }, "colour uniformity: largest Δu'v' over the measurement points"),
+        description="colour uniformity limit: {max: Δu'v', between: pairs | centre}"),
+}, "requirements over a unit's measurement points (e.g. a 3 x 3 grid) of the white")
+
+MEASUREMENTS = ListOf(Text("path of a measurement file (.csv, or .cgats / .txt in CGATS.17), relative to "
+                           "the spec file and inside the specs folder"),
+                      "measurement files from instruments; their units are assessed like inline units")
+
+
 # Python-Markdown takes time in the square of the number of '[' (4000 of them: 1.6 s) and
 # recurses once per level of list nesting (500 levels: RecursionError); real notes need
 # neither, so both are refused here, with the file and line, instead of failing at render.
@@ -393,4 +452,10 @@ SPEC = Record({
                    description="requirements on the gamut of the primaries"),
     "colours": Field(COLOURS, description=COLOURS.description),
     "units": Field(ListOf(UNIT, "measured units"), description="measured units, inline"),
+    "measurements": Field(MEASUREMENTS, description=MEASUREMENTS.description),
+    "decision_rule": Field(Text("simple: ILAC-G8:09/2019 §4.2.1, no guard band; guard-banded: §4.2.2-4.2.3 "
+                                "with w = U, pass / indeterminate / fail (default simple)",
+                                choices=("simple", "guard-banded"))),
+    "uncertainty": Field(UNCERTAINTY, description=UNCERTAINTY.description),
+    "uniformity": Field(UNIFORMITY, description=UNIFORMITY.description),
 }, "a colour specification, format version 1")
