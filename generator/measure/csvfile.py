@@ -85,39 +85,42 @@ def _optional(rows, i, file, lines):
     return out
 
 
-def _read_quoted(text: str, file: str):
+def _collect(numbered_rows, file: str):
+    """Header and data rows from (line, cells) pairs; blank and '#' lines are skipped."""
     cols, width, rows, lines = None, 0, [], []
+    for line, cells in numbered_rows:
+        if not cells or (len(cells) == 1 and not cells[0].strip()) or cells[0].lstrip().startswith("#"):
+            continue
+        if cols is None:
+            cols, width = _header(cells, file, line), len(cells)
+            continue
+        if len(cells) != width:
+            raise ReadError(file, line, 1, "row", f"expected {width} cells as in the header, found {len(cells)}")
+        rows.append(cells)
+        lines.append(line)
+    return cols, width, rows, lines
+
+
+def _read_quoted(text: str, file: str):
     reader = csv.reader(io.StringIO(text, newline=""), strict=True)
     try:
-        for cells in reader:
-            line = reader.line_num
-            if not cells or (len(cells) == 1 and not cells[0].strip()) or cells[0].lstrip().startswith("#"):
-                continue
-            if cols is None:
-                cols, width = _header(cells, file, line), len(cells)
-                continue
-            if len(cells) != width:
-                raise ReadError(file, line, 1, "row", f"expected {width} cells as in the header, found {len(cells)}")
-            rows.append(cells)
-            lines.append(line)
+        return _collect(((reader.line_num, cells) for cells in reader), file)
     except csv.Error as e:
         raise ReadError(file, reader.line_num, 1, "row", f"expected well-formed CSV, found {e}",
                         "a quoted cell must end with a closing quote") from None
-    return cols, width, rows, lines
 
 
 def spectra_to_XYZ(wl, S, observer: str):
     """XYZ (Y in cd/m²) of spectral radiance S (n, k) in W·sr⁻¹·m⁻²·nm⁻¹ sampled at ``wl`` (k,) nm.
 
-    CIE 15:2004 eq. 7.1 summed at 1 nm, X = K_m Σ S(λ) x̄(λ) Δλ with K_m = 683.002 lm/W; the
-    spectrum is interpolated linearly onto the 1 nm table and taken as 0 outside ``wl``.
+    The same method as every other spectrum of a spec (generator.colour.spectrum): CIE 167
+    resampling to 1 nm, CIE 15:2004 eq. 7.1 summed at 1 nm, K_m = 683.002 lm/W.
     """
     from ..colour.spectral import K_M
-    from ..data import cmfs
+    from ..colour.spectrum import resample_to_1nm, spectrum_XYZ
 
-    grid, cmf = cmfs(observer)
-    M = np.stack([np.interp(grid, wl, np.eye(len(wl))[j], left=0.0, right=0.0) for j in range(len(wl))])
-    return K_M * (S @ (M @ cmf))
+    r = resample_to_1nm(wl, S)
+    return K_M * spectrum_XYZ(r.wavelengths, r.values, observer)
 
 
 def parse_csv(text: str, file: str, observer: str = "cie1931-2") -> Records:
@@ -125,18 +128,8 @@ def parse_csv(text: str, file: str, observer: str = "cie1931-2") -> Records:
     if '"' in text:
         cols, width, rows, lines = _read_quoted(text, file)
     else:   # no quoting anywhere: plain splitting gives the same cells, much faster
-        cols, width, rows, lines = None, 0, [], []
-        for line, raw in enumerate(text.splitlines(), 1):
-            if not raw.strip() or raw.lstrip().startswith("#"):
-                continue
-            cells = raw.split(",")
-            if cols is None:
-                cols, width = _header(cells, file, line), len(cells)
-                continue
-            if len(cells) != width:
-                raise ReadError(file, line, 1, "row", f"expected {width} cells as in the header, found {len(cells)}")
-            rows.append(cells)
-            lines.append(line)
+        cols, width, rows, lines = _collect(((n, raw.split(",")) for n, raw in
+                                             enumerate(text.splitlines(), 1)), file)
     if cols is None:
         raise ReadError(file, 1, 1, "header", "expected a header line naming the columns, found none")
     line_arr = np.array(lines, dtype=np.int64)
@@ -162,6 +155,9 @@ def parse_csv(text: str, file: str, observer: str = "cie1931-2") -> Records:
         wl = np.array([w for w, _ in cols["spectrum"]])
         S = np.stack([to_float([r_[i].strip() for r_ in rows], file, line_arr, lambda _k, i=i: i + 1, f"{w:g} nm")
                       for w, i in cols["spectrum"]], axis=-1) if rows else np.zeros((0, wl.size))
+        if wl.size < 3 or np.any(np.diff(wl) <= 0):
+            raise ReadError(file, 1, 1, "header", f"expected three or more increasing wavelength columns, found "
+                            f"{', '.join(f'{w:g}' for w in wl)}", "list the wavelengths in nm, in increasing order")
         r.x, r.y, r.Y = xyz_to_xyY(*spectra_to_XYZ(wl, S, observer).T)
     elif "X" in cols:
         r.x, r.y, r.Y = xyz_to_xyY(num("X"), num("Y"), num("Z"))
