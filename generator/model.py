@@ -10,6 +10,40 @@ from dataclasses import dataclass, field
 XY = tuple[float, float]
 
 
+@dataclass(frozen=True, repr=False)
+class FixedEllipse:
+    """An n-step ellipse a lighting standard tabulates at a fixed centre (``ellipse_of``)."""
+    standard: str               # key, e.g. "iec-60081"
+    colour: str                 # e.g. "F4000"
+    steps: float                # n
+    centre: XY
+    a: float                    # 1-step semi-axes in xy and major-axis angle, degrees
+    b: float
+    angle: float
+    citation: str               # standard, edition and clause
+    confidence: str             # "[M]": values recalled from memory
+
+    def __repr__(self) -> str:   # as a diff shows it
+        return f"{self.standard} {self.colour}, {self.steps:g} steps"
+
+
+@dataclass(frozen=True, repr=False)
+class FixedQuadrangle:
+    """A nominal-CCT quadrangle of a lighting standard (``quadrangle_of``): CCT and Duv ranges."""
+    standard: str               # key, e.g. "ansi-c78.377-2008"
+    nominal_cct: int
+    cct: tuple[float, float]    # isotherms bounding it, K
+    duv: tuple[float, float]    # lines of constant Duv bounding it
+    centre: XY                  # xy of the target CCT and Duv
+    corners: tuple[XY, ...]     # xy(T0, D0), xy(T1, D0), xy(T1, D1), xy(T0, D1)
+    outline: tuple[XY, ...]     # the edges sampled in xy (isotherms straight, Duv edges curved)
+    citation: str
+    confidence: str             # "[M+C]": recalled from memory, centres confirmed by computation
+
+    def __repr__(self) -> str:   # as a diff shows it
+        return f"{self.standard} {self.nominal_cct} K"
+
+
 @dataclass(frozen=True)
 class Tolerance:
     delta_uv: float | None = None
@@ -23,10 +57,13 @@ class Tolerance:
     delta_e76: float | None = None
     dominant_wavelength: tuple[float | None, float | None] | None = None   # nm
     excitation_purity: tuple[float | None, float | None] | None = None
+    ellipse_of: FixedEllipse | None = None
+    quadrangle_of: FixedQuadrangle | None = None
 
     def kinds(self) -> list[str]:
         return [k for k in ("delta_uv", "box", "ellipse", "region", "cct", "duv", "delta_e2000", "delta_e76",
-                            "macadam_steps", "dominant_wavelength", "excitation_purity")
+                            "macadam_steps", "dominant_wavelength", "excitation_purity", "ellipse_of",
+                            "quadrangle_of")
                 if getattr(self, k) is not None]
 
 

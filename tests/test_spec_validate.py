@@ -102,7 +102,7 @@ def test_unknown_keys_suggest_the_closest_known_key(load):
 def test_unknown_key_without_a_close_match_lists_the_known_keys(load):
     assert load(HEAD + "white:\n  target: D65\n  tolerance: {zzz: 1}\n") == [
         "s.yaml:5:15: white.tolerance.zzz: expected a known key, found unknown key 'zzz'\n"
-        "    hint: known keys: delta_uv, box, ellipse, region, macadam_steps, cct, duv"]
+        "    hint: known keys: delta_uv, box, ellipse, region, macadam_steps, cct, duv, ellipse_of, quadrangle_of"]
 
 
 def test_unknown_key_in_a_range(load):

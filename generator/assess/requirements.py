@@ -13,6 +13,8 @@ from ..colour.region import distance_to_polygon_edges, ellipse_radius, in_polygo
 from ..colour.npm import npm_from_primaries
 from ..derive import Derived, volume_figures
 from ..model import Spec, Tolerance
+from .lamp import lamp_columns
+from .lamp import one_sample_rows as lamp_rows
 from .rules import CODES, FAIL, DecisionRule, combine, decide, margin
 from .stats import lot_statistics
 from .units import Column, unit_columns, unit_rows, unit_verdicts
@@ -20,7 +22,8 @@ from .units import Column, unit_columns, unit_rows, unit_verdicts
 UNITS = {"delta_uv": "", "cct": "K", "duv": "", "box": "", "ellipse": "", "region": "",
          "luminance": "cd/m2", "coverage": "%", "area-ratio": "%", "volume": "%", "volume-coverage": "%",
          "delta_e2000": "", "delta_e76": "",
-         "dominant_wavelength": "nm", "excitation_purity": "", "macadam_steps": "steps"}
+         "dominant_wavelength": "nm", "excitation_purity": "", "macadam_steps": "steps",
+         "ellipse_of": "steps", "quadrangle_of": ""}
 
 
 @dataclass
@@ -104,6 +107,7 @@ def tolerance_rows(prefix, subject, sample, tol: Tolerance, target_xy, xy, rule,
         rows.append(_row(f"{prefix}.region", subject, sample, "region", d,
                          {"max": 0.0, "polygon": [list(p) for p in tol.region]},
                          "pass" if inside else FAIL, -d, "distance outside the xy region"))
+    rows += lamp_rows(prefix, subject, sample, tol, xy, rule, design, _row)
     if white is not None:
         if tol.cct is not None:
             rows.append(_range_rows(prefix, subject, sample, "cct", white["cct_K"], tol.cct, "CCT", rule))
@@ -208,6 +212,7 @@ def assess(spec: Spec, derived: Derived, rule: DecisionRule | None = None) -> As
     table = spec.table
     cols = unit_columns(spec, table, derived.ref_hulls, rule) if table is not None and len(table) else []
     if table is not None and len(table):
+        cols = _with_lamp_columns(spec, table, cols, rule)
         cols += row_columns(spec, derived, table, rule)
     n = len(table) if table is not None else 0
     codes = unit_verdicts(cols, n)
@@ -215,6 +220,20 @@ def assess(spec: Spec, derived: Derived, rule: DecisionRule | None = None) -> As
     verdicts = [r["verdict"] for r in rows] + [CODES[k] for k in np.unique(codes)]
     verdict = combine(verdicts) if verdicts else "pass"
     return Assessment(rows, verdict, rule, units, lots, cols, table, codes, suppliers)
+
+
+def _with_lamp_columns(spec: Spec, table, cols, rule):
+    """The white's lighting-standard columns (``ellipse_of``, ``quadrangle_of``) placed after its
+    other columns, so that a unit's rows keep the order of the one-unit builder."""
+    if spec.white is None:
+        return cols
+    W = table.channels["white"]
+    extra = lamp_columns("white", "white", spec.white.tolerance, W[:, :2], np.isfinite(W[:, 0]), rule)
+    if not extra:
+        return cols
+    at = max((i + 1 for i, c in enumerate(cols) if c.subject == "white" and c.id.split(".")[1]
+              not in ("cct", "duv", "luminance", "uniformity")), default=0)
+    return cols[:at] + extra + cols[at:]
 
 
 def _unit_volume(spec: Spec, table, i, names, volume_refs):

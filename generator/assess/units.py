@@ -22,7 +22,8 @@ from .rules import CODES, DecisionRule, decide_many
 UNITS = {"delta_uv": "", "cct": "K", "duv": "", "box": "", "ellipse": "", "region": "",
          "luminance": "cd/m2", "coverage": "%", "area-ratio": "%", "luminance_uniformity": "%",
          "colour_uniformity": "", "volume": "%", "volume-coverage": "%", "delta_e2000": "", "delta_e76": "",
-         "dominant_wavelength": "nm", "excitation_purity": "", "macadam_steps": "steps"}
+         "dominant_wavelength": "nm", "excitation_purity": "", "macadam_steps": "steps",
+         "ellipse_of": "steps", "quadrangle_of": ""}
 
 
 @dataclass

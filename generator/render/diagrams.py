@@ -18,7 +18,9 @@ import numpy as np
 
 from ..assess.rules import SYMBOL
 from ..colour.convert import xy_to_uv_prime
+from ..colour.lamp_tolerance import ellipse_outline_xy
 from ..colour.macadam import macadam_metric, metric_axes
+from ..data.lamp_standards import standard_name as lamp_name
 from ..colour.npm import npm_from_primaries
 from ..colour.volume import lightness_slice
 from ..data import OBSERVERS
@@ -40,6 +42,14 @@ def tolerance_shapes(tol, centre_xy, label):
         a, b, ang = (float(v) for v in metric_axes(macadam_metric(np.array(centre_xy))))
         n = tol.macadam_steps
         shapes.append((f"{label}: {n:g}-step MacAdam ellipse", F.ellipse_xy(centre_xy, n * a, n * b, ang)))
+    e = getattr(tol, "ellipse_of", None)
+    if e is not None:   # fixed figures: centred on the standard's centre, not on the target
+        shapes.append((f"{label}: {lamp_name(e.standard)} {e.colour} {e.steps:g}-step ellipse {e.confidence}",
+                       ellipse_outline_xy(e.centre, e.a, e.b, e.angle, steps=e.steps)))
+    q = getattr(tol, "quadrangle_of", None)
+    if q is not None:
+        shapes.append((f"{label}: {lamp_name(q.standard)} {q.nominal_cct} K quadrangle {q.confidence}",
+                       np.array(q.outline)))
     if tol.cct is not None or tol.duv is not None:
         shapes.append((f"{label}: CCT × Duv", F.cct_duv_quad_xy(tol.cct or (None, None), tol.duv or (None, None))))
     return shapes

@@ -13,6 +13,8 @@ from ..assess.rules import SYMBOL
 from ..colour.cct import METHOD as CCT_METHOD
 from ..colour.macadam import METHOD as MACADAM_METHOD
 from ..data import ILLUMINANTS, OBSERVERS
+from ..data.lamp_standards import ELLIPSE_STANDARDS, MEMORY_NOTE, QUADRANGLE_STANDARDS
+from ..data.lamp_standards import standard_name as lamp_name
 
 CAUTION_CATEGORIES = ("signal", "safety", "lighting")
 CAUTION = ("The figures on this page are an engineering check of the specification. For signal, "
@@ -56,7 +58,7 @@ _DIGITS = {"cct": 0, "duv": 4, "delta_uv": 4, "box": 4, "ellipse": 2, "region": 
            "luminance": 1, "coverage": 1, "area-ratio": 1, "volume": 1, "volume-coverage": 1,
            "delta_e2000": 2, "delta_e76": 2,
            "dominant_wavelength": 1, "excitation_purity": 3,
-           "macadam_steps": 2,
+           "macadam_steps": 2, "ellipse_of": 2, "quadrangle_of": 4,
            "luminance_uniformity": 1, "colour_uniformity": 4}
 
 
@@ -69,6 +71,13 @@ def limit_text(row) -> str:
         return f"inside a = {lim['a']:.4f}, b = {lim['b']:.4f}, θ = {lim['angle']:g}°"
     if row["quantity"] == "region":
         return f"inside a {len(lim['polygon'])}-corner xy region"
+    if row["quantity"] == "ellipse_of":
+        return (f"≤ {lim['max']:g} steps of the {lamp_name(lim['standard'])} {lim['colour']} ellipse "
+                f"{lim['confidence']}")
+    if row["quantity"] == "quadrangle_of":
+        c, u = lim["cct"], lim["duv"]
+        return (f"inside the {lamp_name(lim['standard'])} {lim['nominal_cct']} K quadrangle ({c['min']:.0f}-"
+                f"{c['max']:.0f} K, Duv {u['min']:+.4f} to {u['max']:+.4f}) {lim['confidence']}")
     lo, hi = lim.get("min"), lim.get("max")
     if row["quantity"] == "delta_e2000" and (lim["kL"], lim["kC"], lim["kH"]) != (1.0, 1.0, 1.0):
         return f"≤ {hi:.{d}f} (kL {lim['kL']:g}, kC {lim['kC']:g}, kH {lim['kH']:g})"
@@ -139,6 +148,9 @@ def methods(spec) -> list[tuple[str, str]]:
     tols += [p.tolerance for p in spec.primaries] + [c.tolerance for c in spec.colours]
     if any(t.macadam_steps is not None for t in tols):
         extra.append(("MacAdam steps", MACADAM_METHOD))
+    lamp = lamp_methods(tols)
+    if lamp:
+        extra.append(("Lighting-standard tolerances", lamp))
     if any(g.metric.startswith("volume") for g in spec.gamut) or (spec.white and len(spec.primaries) == 3):
         extra.append(("Gamut volume", "CIELAB gamut volume (the metric ICDM IDMS §5.32 recommends): the "
                                       "RGB cube's surface, 64 × 64 quads per face, through the NPM to XYZ and "
@@ -176,6 +188,33 @@ def methods(spec) -> list[tuple[str, str]]:
                                       "out-of-gamut colours clipped); they show where colours lie, not how a "
                                       "product looks, and take no part in any verdict"),
     ]
+
+
+def lamp_methods(tols) -> str:
+    """How the fixed figures of lighting standards were taken and assessed, with the standards,
+    their editions and the marking of values recalled from memory; '' when none is used."""
+    ellipses = sorted({t.ellipse_of.standard for t in tols if t.ellipse_of is not None})
+    quads = sorted({t.quadrangle_of.standard for t in tols if t.quadrangle_of is not None})
+    if not ellipses and not quads:
+        return ""
+    parts = []
+    for key in ellipses:
+        std = ELLIPSE_STANDARDS[key]
+        parts.append(f"{std.name} ({std.edition}), {std.clause}: {std.note} {std.confidence}; an n-step "
+                     "ellipse has n times the tabulated 1-step semi-axes and is centred on the standard "
+                     "colour's centre, not on the target; a chromaticity's distance in steps is sqrt(dᵀ G d) "
+                     "with G = R diag(1/a², 1/b²) Rᵀ, U in xy counting as U / b steps")
+    for key in quads:
+        std = QUADRANGLE_STANDARDS[key]
+        parts.append(f"{std.name}, {std.clause}: {std.note} {std.confidence}; each quadrangle is bounded by "
+                     "the isotherms at target CCT ± tolerance and the lines of constant Duv at target Duv ± "
+                     "0.006 (CIE 1960 uv), drawn and assessed as that outline in xy (Duv edges sampled at 64 "
+                     "points); the value is the xy distance outside it, 0 inside")
+    parts.append(f"[M]: {MEMORY_NOTE}; [M+C]: recalled from memory and reproduced by an independent "
+                 "computation. These are engineering checks against figures of lighting standards: for lamps "
+                 "and luminaires the applicable regulations and the standards' own text, and testing by an "
+                 "accredited laboratory, govern conformity")
+    return ". ".join(parts)
 
 
 _U_UNITS = {"cct": " K", "luminance": " cd/m²", "coverage": " percentage points",

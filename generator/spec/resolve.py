@@ -12,14 +12,18 @@ from ..colour.cct import xy_from_cct_duv
 from ..colour.convert import XYZ_to_xy, uv_prime_to_xy, xy_to_XYZ
 from ..colour.difference import Lab_to_XYZ
 from ..colour.gamut import convex_hull, polygon_area
+from ..colour.lamp_tolerance import quadrangle_corners_xy, quadrangle_outline_xy
 from ..colour.region import in_polygon
 from ..colour.spectrum import Resampled, resample_to_1nm, spectrum_XYZ
 from ..colour.spectrum import luminance as spectrum_luminance
 from ..colour.wavelength import outside_locus_distance
 from ..data import ILLUMINANTS, REFERENCE_SPACES
+from ..data.lamp_standards import ELLIPSE_STANDARDS, QUADRANGLE_STANDARDS
 from ..measure.spectra_csv import SpectraFileError, parse_spectra_csv
 from ..model import (
     Colour,
+    FixedEllipse,
+    FixedQuadrangle,
     GamutRequirement,
     Measurement,
     Primary,
@@ -81,7 +85,33 @@ def _tolerance(v: dict | None) -> Tolerance:
         macadam_steps=v.get("macadam_steps"),
         dominant_wavelength=v.get("dominant_wavelength"),
         excitation_purity=v.get("excitation_purity"),
+        ellipse_of=_ellipse_of(v["ellipse_of"]) if "ellipse_of" in v else None,
+        quadrangle_of=_quadrangle_of(v["quadrangle_of"]) if "quadrangle_of" in v else None,
     )
+
+
+def _ellipse_of(v: dict) -> FixedEllipse:
+    std = ELLIPSE_STANDARDS[v["standard"]]
+    e = std.figures[v["colour"]]
+    return FixedEllipse(std.key, e.colour, v["steps"], e.centre, e.a, e.b, e.angle, std.citation, std.confidence)
+
+
+def _quadrangle_of(v: dict) -> FixedQuadrangle:
+    std = QUADRANGLE_STANDARDS[v["standard"]]
+    q = std.figures[v["nominal_cct"]]
+    cct = (q.cct - q.cct_tolerance, q.cct + q.cct_tolerance)
+    duv = (q.duv - q.duv_tolerance, q.duv + q.duv_tolerance)
+
+    def pts(a):
+        return tuple((float(x), float(y)) for x, y in a)
+    centre = tuple(float(c) for c in xy_from_cct_duv(q.cct, q.duv))
+    return FixedQuadrangle(std.key, q.nominal_cct, cct, duv, centre, pts(quadrangle_corners_xy(cct, duv)),
+                           pts(quadrangle_outline_xy(cct, duv)), std.citation, std.confidence)
+
+
+def uses_lamp_standards(tols) -> bool:
+    """True if any of the tolerances names a lighting standard's fixed figure."""
+    return any(t.ellipse_of is not None or t.quadrangle_of is not None for t in tols)
 
 
 class _Resolver:
@@ -389,9 +419,12 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems,
     if not r.ok:
         return None
     warnings = [p for p in problems.warnings if p.file == file or p.file in shown_files]
+    # a spec judged against a lighting standard's figures is a lighting spec unless it says otherwise,
+    # so that its page carries the caution of lighting products
+    lamp = uses_lamp_standards(([white.tolerance] if white else []) + [c.tolerance for c in colours])
     return Spec(
         id=v["id"], file=file, title=v.get("title", v["id"]), product=v.get("product", ""),
-        family=v.get("family", ""), category=v.get("category", "display"),
+        family=v.get("family", ""), category=v.get("category", "lighting" if lamp else "display"),
         revision=v.get("revision", ""), status=v.get("status", "draft"), observer=observer,
         extends=v.get("extends", ""), owner=v.get("owner", ""), notes=v.get("notes", ""),
         white=white, primaries=primaries, gamut=gamut, units=units, references=references, colours=colours,

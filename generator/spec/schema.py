@@ -5,7 +5,7 @@ all generated from the declarations below.
 """
 from __future__ import annotations
 
-from .problems import Problems
+from .problems import Problems, did_you_mean
 from .types import INVALID, Custom, Field, Integer, ListOf, Number, Range, Record, Text, describe
 from .yamlnodes import Map
 
@@ -60,6 +60,81 @@ def _point_xy(node, path, problems):
     return INVALID if v is INVALID else (v[0], v[1])
 
 
+def _lamp_figure(record: Record, standards: dict, key: str, what: str):
+    """Check a {standard, KEY, ...} mapping naming one figure of a lighting standard's table."""
+    def check(node, path, problems):
+        v = record.check(node, path, problems)
+        if v is INVALID:
+            return v
+        std = standards[v["standard"]]
+        name = v[key]
+        if name not in std.figures:
+            known = [str(k) for k in std.figures]
+            if isinstance(name, float):
+                shown = f"{name:g}"
+                hint = f"the nearest is {min(std.figures, key=lambda k: abs(k - name))}"
+            else:
+                shown, hint = repr(name), did_you_mean(name, known)
+            problems.error(node.items[key].mark, f"{path}.{key}",
+                           f"expected one of {', '.join(known)} (the {what} of {std.name}), found {shown}", hint)
+            return INVALID
+        return v
+    return check
+
+
+def _ellipse_of() -> Custom:
+    from ..data.lamp_standards import ELLIPSE_STANDARDS
+
+    rec = Record({
+        "standard": Field(Text("the standard: iec-60081 (IEC 60081 Annex D, double-capped fluorescent lamps; "
+                               "values recalled from memory)", choices=tuple(ELLIPSE_STANDARDS)), True),
+        "colour": Field(Text("the standard colour, e.g. F4000 (checked against the named standard's table)"),
+                        True),
+        "steps": Field(Number("size n of the ellipse: n times the tabulated 1-step semi-axes",
+                              exclusive_minimum=0.0, maximum=20.0), True),
+    }, "an n-step ellipse tabulated by a lighting standard at a fixed centre")
+    schema = rec.json_schema()
+    schema["properties"]["colour"]["enum"] = sorted({c for s in ELLIPSE_STANDARDS.values() for c in s.figures})
+    return Custom(_lamp_figure(rec, ELLIPSE_STANDARDS, "colour", "standard colours"), schema,
+                  "the n-step ellipse a lighting standard tabulates for a standard lamp colour, centred on "
+                  "the standard's centre (not the target), e.g. {standard: iec-60081, colour: F4000, steps: 5}; "
+                  + "; ".join(f"{k}: {', '.join(s.figures)} ({s.confidence})" for k, s in ELLIPSE_STANDARDS.items())
+                  + "; [M]: values recalled from memory",
+                  "{standard, colour, steps}")
+
+
+def _quadrangle_of() -> Custom:
+    from ..data.lamp_standards import QUADRANGLE_STANDARDS
+
+    rec = Record({
+        "standard": Field(Text("the standard: ansi-c78.377-2008 (ANSI C78.377-2008, solid-state lighting; "
+                               "values recalled from memory, centres confirmed by computation)",
+                               choices=tuple(QUADRANGLE_STANDARDS)), True),
+        "nominal_cct": Field(Number("the nominal CCT category, K, e.g. 4000", minimum=1000.0,
+                                    maximum=100000.0, unit="K"), True),
+    }, "a nominal-CCT quadrangle of a lighting standard")
+    schema = rec.json_schema()
+    schema["properties"]["nominal_cct"]["enum"] = sorted({k for s in QUADRANGLE_STANDARDS.values()
+                                                         for k in s.figures})
+    return Custom(_lamp_figure(rec, QUADRANGLE_STANDARDS, "nominal_cct", "nominal CCTs"), schema,
+                  "the quadrangle of a nominal CCT category of a lighting standard, bounded by the isotherms "
+                  "at target CCT ± tolerance and the lines of constant Duv at target Duv ± 0.006, e.g. "
+                  "{standard: ansi-c78.377-2008, nominal_cct: 4000}; "
+                  + "; ".join(f"{k}: {', '.join(map(str, s.figures))} K ({s.confidence})"
+                              for k, s in QUADRANGLE_STANDARDS.items())
+                  + "; [M+C]: values recalled from memory, centres confirmed by computation",
+                  "{standard, nominal_cct}")
+
+
+ELLIPSE_OF = _ellipse_of()
+QUADRANGLE_OF = _quadrangle_of()
+
+
+def _lamp_fields() -> dict[str, Field]:
+    return {"ellipse_of": Field(ELLIPSE_OF, description=ELLIPSE_OF.description),
+            "quadrangle_of": Field(QUADRANGLE_OF, description=QUADRANGLE_OF.description)}
+
+
 def _tolerance(white: bool) -> Record:
     f = {
         "delta_uv": Field(Number("radius of a circle around the target in CIE 1976 u'v'",
@@ -75,6 +150,7 @@ def _tolerance(white: bool) -> Record:
         f["cct"] = Field(Range("inclusive CCT range, K",
                                bound=Number(minimum=1000.0, maximum=100000.0)))
         f["duv"] = Field(Range("inclusive Duv range", bound=Number(minimum=-0.05, maximum=0.05)))
+        f.update(_lamp_fields())
     return Record(f, "limits that must all hold")
 
 
@@ -294,6 +370,7 @@ def _colour_tolerance() -> Record:
                                            bound=Number(minimum=360.0, maximum=830.0))),
         "excitation_purity": Field(Range("inclusive excitation-purity range, 0-1 (CIE 15:2004 §9.1)",
                                          bound=Number(minimum=0.0, maximum=1.0))),
+        **_lamp_fields(),
     }, "limits on a colour; every listed limit must hold")
 
 
