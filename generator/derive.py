@@ -217,14 +217,17 @@ def derive(spec: Spec) -> Derived:
         colours[c.name] = colour_figures([c.xy], [np.nan if c.Y is None else c.Y], c.reference_white,
                                          spec.observer)[0]
 
-    unit_colours: dict[str, dict] = {}
-    for u in spec.units:
-        uc = {}
-        for name, m in u.colours.items():
-            c = by_name[name]
-            uc[name] = colour_figures([m.xy], [np.nan if m.Y is None else m.Y], c.reference_white,
-                                      spec.observer)[0]
-        if uc:
-            unit_colours.setdefault(u.serial, {}).update(uc)
+    # measured colours (inline and from measurement files), each colour's units at once; a unit's
+    # colours keep the order it gives them in
+    figs: dict[tuple[str, str], dict] = {}
+    for name, c in by_name.items():
+        serials = [s for s, cs in spec.unit_colours.items() if name in cs]
+        if not serials:
+            continue
+        ms = [spec.unit_colours[s][name] for s in serials]
+        out = colour_figures([m.xy for m in ms], [np.nan if m.Y is None else m.Y for m in ms],
+                             c.reference_white, spec.observer)
+        figs.update(((s, name), f) for s, f in zip(serials, out, strict=True))
+    unit_colours = {s: {name: figs[(s, name)] for name in cs} for s, cs in spec.unit_colours.items()}
     spectra = {sd.key: spectrum_figures(sd, spec.observer) for sd in spec.spectra}
     return Derived(white, prims, npm, npm_inv, gamut, ref_hulls, colours, spectra, unit_colours)

@@ -186,6 +186,9 @@ class Spec:
     uniformity: Uniformity | None = None
     measurements: list = field(default_factory=list)        # measurement files read, as shown
     measurement_digests: list = field(default_factory=list)  # sha256 of each one's bytes (cache key)
+    # measured colours of every unit, inline (units[].colours) and from measurement files
+    # (channel colours.NAME): serial -> colour name -> Measurement (Y: luminance factor)
+    unit_colours: dict = field(default_factory=dict)
 
 
 @dataclass

@@ -5,12 +5,16 @@ The first non-comment line names the columns; lines starting with '#' are commen
 | column | required | meaning |
 |---|---|---|
 | serial | yes | the unit's serial number |
-| channel | yes | `white` or the name of one of the spec's primaries |
+| channel | yes | `white`, the name of one of the spec's primaries, or `colours.NAME` for one of its colours |
 | lot, supplier | no | the unit's production lot and who made it |
 | point | no | measurement point on the unit (for uniformity, e.g. 1-9 of a 3 x 3 grid) |
 | x, y, Y | one of the two | CIE 1931 chromaticity and luminance Y in cd/m² (Y optional; an empty Y cell: not measured) |
 | X, Y, Z | | CIE tristimulus values, Y in cd/m² |
 | 380, 385, ... | | a spectrum: spectral radiance, W·sr⁻¹·m⁻²·nm⁻¹, at each wavelength in nm |
+
+For a colour record (``colours.NAME``) Y is the luminance factor (reference white Y = 100).
+With wavelength columns a ``Y`` column may give it; its cell must be empty on white and
+primary records, whose luminance is the spectrum's.
 
 Column names are matched without regard to case, except x/X, y/Y and z/Z.
 """
@@ -24,6 +28,7 @@ import numpy as np
 from .records import ReadError, Records, to_float, xyz_to_xyY
 
 TEXT_COLUMNS = ("serial", "lot", "supplier", "channel", "point")
+COLOUR_CHANNEL = "colours."     # a channel "colours.NAME" is a measurement of the spec's colour NAME
 NUMBER_COLUMNS = ("x", "y", "Y", "X", "Z")
 
 
@@ -59,7 +64,7 @@ def _header(cells: list[str], file: str, line: int) -> dict[str, int]:
             raise ReadError(file, line, 1, need, f"expected a '{need}' column, found none",
                             "the header needs serial, channel and x, y (Y) or X, Y, Z")
     has_xy, has_xz = "x" in cols or "y" in cols, "X" in cols or "Z" in cols
-    if spectral:
+    if spectral:   # a Y column beside a spectrum holds the luminance factor of colour records
         if has_xy or has_xz:
             raise ReadError(file, line, 1, "x", "expected colour columns or wavelength columns, found both")
         if len(spectral) < 3:
@@ -120,7 +125,9 @@ def spectra_to_XYZ(wl, S, observer: str):
     from ..colour.spectrum import resample_to_1nm, spectrum_XYZ
 
     r = resample_to_1nm(wl, S)
-    return K_M * spectrum_XYZ(r.wavelengths, r.values, observer)
+    # negative spectral power (noise, interpolation ringing beside narrow peaks) counts as 0,
+    # as for the spectra of a spec (spec.resolve)
+    return K_M * spectrum_XYZ(r.wavelengths, np.clip(r.values, 0.0, None), observer)
 
 
 def parse_csv(text: str, file: str, observer: str = "cie1931-2") -> Records:
@@ -159,6 +166,20 @@ def parse_csv(text: str, file: str, observer: str = "cie1931-2") -> Records:
             raise ReadError(file, 1, 1, "header", f"expected three or more increasing wavelength columns, found "
                             f"{', '.join(f'{w:g}' for w in wl)}", "list the wavelengths in nm, in increasing order")
         r.x, r.y, r.Y = xyz_to_xyY(*spectra_to_XYZ(wl, S, observer).T)
+        colour = np.array([c.startswith(COLOUR_CHANNEL) for c in r.channel], bool)
+        if "Y" in cols:
+            factor = _optional(rows, cols["Y"], file, line_arr)
+            bad = np.flatnonzero(~colour & np.isfinite(factor))
+            if bad.size:
+                i = int(bad[0])
+                raise ReadError(file, lines[i], cols["Y"] + 1, "Y", f"expected an empty Y for a {r.channel[i]} "
+                                f"spectrum, found {rows[i][cols['Y']].strip()!r}",
+                                "a spectrum gives its own luminance; Y beside a spectrum is the luminance "
+                                "factor of a colours.NAME record")
+        else:
+            factor = np.full(len(rows), np.nan)
+        # a colour's Y is its luminance factor (reference white Y = 100), never the spectrum's cd/m²
+        r.Y = np.where(colour, factor, r.Y)
     elif "X" in cols:
         r.x, r.y, r.Y = xyz_to_xyY(num("X"), num("Y"), num("Z"))
     else:

@@ -40,8 +40,11 @@ def group(parts: list[Records], channels: list[str], centre: str, check) -> tupl
                                   f"and {len(idx) - MAX_REPORTED} more records with the same problem"))
 
     known = np.isin(channel.astype(str), np.array(channels, dtype=str))
+    colour_channels = [c for c in channels if c.startswith("colours.")]
+    prims = [c for c in channels[1:] if c not in colour_channels]
+    also = f", or one of its colours ({', '.join(colour_channels)})" if colour_channels else ""
     report(errors, np.flatnonzero(~known), "channel",
-           lambda i: f"expected 'white' or a primary of the spec ({', '.join(channels[1:]) or 'none'}), "
+           lambda i: f"expected 'white' or a primary of the spec ({', '.join(prims) or 'none'}){also}, "
                      f"found {channel[i]!r}")
     err, warn, msg = check(x, y)
     report(errors, np.flatnonzero(err & known), "x", msg)

@@ -74,14 +74,11 @@ def plotted_units(e, members=None) -> np.ndarray:
 
 def _unit_points(e, channels, idx, after=()):
     """(serial and channel, (x, y), verdict) of each measured channel of the units ``idx``,
-    inline or from measurement files; the measured colours of inline units (``units[].colours``)
-    come after ``channels``, then the channels in ``after``."""
+    inline or from measurement files; the unit's measured colours (inline ``units[].colours`` and
+    ``colours.NAME`` records of measurement files) come after ``channels``, then the channels in
+    ``after``."""
     a, t = e.assessment, e.assessment.table
-    colours = {}
-    if after or channels != ["white"]:
-        for u in e.spec.units:
-            if u.colours:
-                colours.setdefault(u.serial, u.colours)
+    colours = e.spec.unit_colours if (after or channels != ["white"]) else {}
     out = []
     for i in idx.tolist():
         v = ("pass", "indeterminate", "fail")[a.unit_codes[i]]

@@ -11,7 +11,8 @@ from ..colour.wavelength import locus_boundary, outside_locus_distance
 from ..measure.files import PathRefused, read
 from ..measure.records import ReadError, Records
 from ..measure.units import group
-from ..model import Uncertainty, Uniformity, Unit, UnitTable
+from ..measure.csvfile import COLOUR_CHANNEL
+from ..model import Measurement, Uncertainty, Uniformity, Unit, UnitTable
 from .yamlnodes import Mark
 
 
@@ -91,11 +92,63 @@ def physical_check(observer: str, locus_tolerance: float, measured_limit: float)
     return check
 
 
+def _colour_records(r, parts: list[Records], colours) -> dict:
+    """Check the records of the spec's colours (channel ``colours.NAME``) in measurement files:
+    one measurement per unit (no grid points), and a luminance factor Y where the colour has a
+    ΔE limit. Returns (serial, colour name) -> (file, line) of each record."""
+    needs_Y = {COLOUR_CHANNEL + c.name: c.tolerance.delta_e2000 is not None or c.tolerance.delta_e76 is not None
+               for c in colours}
+    where = {}
+    for p in parts:
+        for k, ch in enumerate(p.channel):
+            if ch not in needs_Y:
+                continue
+            line = int(p.line[k])
+            if p.point[k]:
+                r.problems.error(Mark(p.file, line, 1), "point", f"expected no point for a {ch} record, found "
+                                 f"{p.point[k]!r}", "a colour is measured once per unit; points are for the white")
+                r.ok = False
+            elif needs_Y[ch] and not np.isfinite(p.Y[k]):
+                r.problems.error(Mark(p.file, line, 1), "Y", f"expected a luminance factor Y for {ch}, which has "
+                                 "a ΔE limit, found none", "give Y with the reference white at Y = 100 (beside a "
+                                 "spectrum too: a spectrum's own luminance is not a luminance factor)")
+                r.ok = False
+            where[(p.serial[k], ch[len(COLOUR_CHANNEL):])] = (p.file, line)
+    return where
+
+
+def file_colours(r, table: UnitTable, colours, where: dict, observer: str, inline: dict) -> dict:
+    """The measured colours of the file records, taken out of ``table.channels`` into serial ->
+    colour name -> Measurement, merged with the ``inline`` ones (units[].colours); a colour
+    measured both inline and in a file is an error at the file's record."""
+    out = {s: dict(cs) for s, cs in inline.items()}
+    for c in colours:
+        a = table.channels.pop(COLOUR_CHANNEL + c.name, None)
+        if a is None:
+            continue
+        rows = np.flatnonzero(np.isfinite(a[:, 0]))
+        if not rows.size:
+            continue
+        d = locus_distance(a[rows, :2], observer)
+        for i, dist in zip(rows.tolist(), d.tolist()):
+            serial = table.serial[i]
+            if c.name in out.get(serial, {}):
+                f, line = where.get((serial, c.name), (r.file, 1))
+                r.problems.error(Mark(f, line, 1), "channel", f"expected one measurement of {c.name} for unit "
+                                 f"{serial}, found one in this file and one under units", "give each measurement once")
+                r.ok = False
+                continue
+            Y = float(a[i, 2]) if np.isfinite(a[i, 2]) else None
+            out.setdefault(serial, {})[c.name] = Measurement((float(a[i, 0]), float(a[i, 1])), Y, float(dist))
+    return out
+
+
 def measured_table(r, v: dict, node, files, units: list[Unit], unit_lines: list[int],
-                   primaries: list[str], observer: str, centre: str, limits):
+                   primaries: list[str], observer: str, centre: str, limits, colours=()):
     """(table of every unit of the spec, measurement files as shown, sha256 of each file's
-    bytes); ``files`` finds and reads them (measure.files.FolderFiles); errors and warnings
-    go to the resolver ``r``."""
+    bytes, the measured colours serial -> name -> Measurement, inline and from files);
+    ``files`` finds and reads them (measure.files.FolderFiles); errors and warnings go to the
+    resolver ``r``."""
     parts = [inline_records(r.file, units, unit_lines)] if units else []
     inline_serials = {u.serial for u in units}
     shown_files, digests = [], []
@@ -123,7 +176,9 @@ def measured_table(r, v: dict, node, files, units: list[Unit], unit_lines: list[
         parts += recs
         shown_files.append(shown)
         digests.append(hashlib.sha256(data).hexdigest())
-    table, errors, warnings = group(parts, ["white"] + primaries, centre, physical_check(observer, *limits))
+    where = _colour_records(r, parts, colours)
+    channels = ["white"] + primaries + [COLOUR_CHANNEL + c.name for c in colours]
+    table, errors, warnings = group(parts, channels, centre, physical_check(observer, *limits))
     # an inline unit is physically checked by the resolver already; skip its duplicates here
     for e in errors:
         r.problems.error(Mark(e.file, e.line, e.col), e.field, e.message, e.hint)
@@ -131,4 +186,5 @@ def measured_table(r, v: dict, node, files, units: list[Unit], unit_lines: list[
     for w in warnings:
         if w.file != r.file or not inline_serials:
             r.problems.warn(Mark(w.file, w.line, w.col), w.field, w.message, w.hint)
-    return table, shown_files, digests
+    inline = {u.serial: u.colours for u in units if u.colours}
+    return table, shown_files, digests, file_colours(r, table, colours, where, observer, inline)

@@ -410,9 +410,9 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems,
         from ..measure.files import NoFiles
 
         files = NoFiles()
-    table, shown_files, digests = measured_table(r, v, node, files, units, unit_lines, names, observer,
-                                  uniformity.centre if uniformity else "C",
-                                  (LOCUS_TOLERANCE, MEASURED_LOCUS_LIMIT))
+    table, shown_files, digests, unit_colours = measured_table(
+        r, v, node, files, units, unit_lines, names, observer, uniformity.centre if uniformity else "C",
+        (LOCUS_TOLERANCE, MEASURED_LOCUS_LIMIT), colours)
     if table is not None:
         _add_colour_only_units(table, file, units, unit_lines)
 
@@ -431,7 +431,7 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems,
         spectra=[r.spectra[k] for k in sorted(r.spectra, key=_spectrum_order)],
         inherited=dict(node.inherited), warnings=warnings, input_files=dict(sorted(r.files.items())),
         table=table, decision_rule=v.get("decision_rule", "simple"), uncertainty=uncertainty_of(v),
-        uniformity=uniformity, measurements=shown_files, measurement_digests=digests)
+        uniformity=uniformity, measurements=shown_files, measurement_digests=digests, unit_colours=unit_colours)
 
 
 def _add_colour_only_units(table, file: str, units: list[Unit], lines: list[int]) -> None:
