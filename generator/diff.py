@@ -166,6 +166,9 @@ def _units(spec):
                 parts.append(f"white x {x:.4f}, y {y:.4f}" + (f", Y {Y:g}" if not math.isnan(Y) else ""))
             else:
                 parts.append(f"{c} x {x:.4f}, y {y:.4f}")
+        # measured colours, inline or from files (Y: the luminance factor)
+        for name, m in spec.unit_colours.get(serial, {}).items():
+            parts.append(f"{name} x {m.xy[0]:.4f}, y {m.xy[1]:.4f}" + (f", Y {m.Y:g}" if m.Y is not None else ""))
         yield f"units.{serial}", "; ".join(parts)
 
 

@@ -205,3 +205,19 @@ def test_a_measurement_path_leaving_the_specs_folder_is_refused_at_a_revision(re
     r = run("diff", "--git", "HEAD~1..HEAD", cwd=repo)
     assert r.returncode == 2 and "Traceback" not in r.stderr
     assert "expected a file inside the specs folder" in r.stderr
+
+
+def test_a_measured_colour_from_a_measurement_file_shows_as_a_unit_change(tmp_path):
+    old, new = tmp_path / "old", tmp_path / "new"
+    shutil.copytree(DEMO_SPECS, old)
+    shutil.copytree(DEMO_SPECS, new)
+    p = new / "measurements" / "keel-12" / "umbrin-lot-K2614.csv"
+    text = p.read_text(encoding="utf-8")
+    line = next(ln for ln in text.splitlines() if ln.startswith("KL12-04612,") and "colours.legend-teal" in ln)
+    cells = line.split(",")
+    cells[-1] = "30.00"                      # the legend's luminance factor
+    p.write_text(text.replace(line, ",".join(cells)), encoding="utf-8")
+    diffs = D.compare(D.side(str(old)), D.side(str(new)))
+    assert [d.id for d in diffs] == ["corvinta-keel-12-keypad"]
+    (c,) = diffs[0].changes
+    assert c.key == "units.KL12-04612" and "legend-teal" in c.old and "Y 30" in c.new and "Y 30" not in c.old
