@@ -110,7 +110,7 @@ def test_iec_ellipses_are_not_copies_of_the_interpolated_macadam_ellipses():
 
 # ---------------------------------------------------------------- quadrangles
 
-# ANSI C78.377-2008 centres, shared/reference check-values.md §4c: target CCT ± tolerance and
+# ANSI C78.377-2008 centres, check-values §4c: target CCT ± tolerance and
 # target Duv [M], centre "recomputed from those (Ohno 2013) [C]" and "centre quoted from
 # memory [M]", the two agreeing to 4 dp, hence [M+C].
 ANSI_CENTRES_4C = {2700: (0.4578, 0.4101), 3000: (0.4338, 0.4030), 3500: (0.4073, 0.3917),

@@ -109,6 +109,24 @@ def _quadrangle_of(v: dict) -> FixedQuadrangle:
                            pts(quadrangle_outline_xy(cct, duv)), std.citation, std.confidence)
 
 
+def _refuse_lamp_figures(r, v: dict, observer: str) -> None:
+    """The lighting standards tabulate their figures in CIE 1931 xy (2° observer): they do not
+    apply to chromaticities of another observer."""
+    places = [["white", "tolerance"]] if "white" in v else []
+    if "colours" in v:
+        places.append(["colours", "tolerance"])
+        places += [["colours", k, "tolerance"] for k in v["colours"] if k not in RESERVED_COLOUR_NAMES]
+    for path in places:
+        tol = v
+        for p in path:
+            tol = tol.get(p) if isinstance(tol, dict) else None
+        for key in ("ellipse_of", "quadrangle_of"):
+            if isinstance(tol, dict) and key in tol:
+                r.error(path + [key], f"expected observer cie1931-2 for a lighting standard's {key}, found "
+                        f"observer {observer}", "the standards give these figures in CIE 1931 xy (2° observer); "
+                        "use an ellipse or region in the spec's own observer instead", key=True)
+
+
 def uses_lamp_standards(tols) -> bool:
     """True if any of the tolerances names a lighting standard's fixed figure."""
     return any(t.ellipse_of is not None or t.quadrangle_of is not None for t in tols)
@@ -300,6 +318,8 @@ def resolve_spec(file: str, node: Map, v: dict, by_id: dict, problems: Problems,
                  folder: Path | None = None, files=None) -> Spec | None:
     observer = v.get("observer", "cie1931-2")
     r = _Resolver(file, node, problems, observer, folder)
+    if observer != "cie1931-2":
+        _refuse_lamp_figures(r, v, observer)
 
     white = None
     if "white" in v:
