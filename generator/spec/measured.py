@@ -98,10 +98,14 @@ def _colour_records(r, parts: list[Records], colours) -> dict:
     ΔE limit. Returns (serial, colour name) -> (file, line) of each record."""
     needs_Y = {COLOUR_CHANNEL + c.name: c.tolerance.delta_e2000 is not None or c.tolerance.delta_e76 is not None
                for c in colours}
-    where = {}
+    where: dict = {}
+    if not needs_Y:
+        return where
     for p in parts:
-        for k, ch in enumerate(p.channel):
-            if ch not in needs_Y:
+        ks = [k for k, ch in enumerate(p.channel) if ch.startswith(COLOUR_CHANNEL)]
+        for k in ks:
+            ch = p.channel[k]
+            if ch not in needs_Y:   # an unknown colour: reported with the unknown channels
                 continue
             line = int(p.line[k])
             if p.point[k]:
