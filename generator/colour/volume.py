@@ -12,6 +12,8 @@ CIELAB grid, and a grid point is in a solid when XYZ → RGB through the inverse
 """
 from __future__ import annotations
 
+from functools import lru_cache
+
 import numpy as np
 
 from .difference import Lab_to_XYZ, XYZ_to_Lab
@@ -22,6 +24,12 @@ GRID_STEP = 1.0      # CIELAB units between coverage grid points
 
 def cube_surface(n: int = MESH_N):
     """Vertices (k, 3) and outward-facing triangles (m, 3) of the RGB unit cube's surface."""
+    verts, tris = _cube_surface(int(n))
+    return verts.copy(), tris.copy()
+
+
+@lru_cache(maxsize=4)
+def _cube_surface(n: int):
     t = np.linspace(0.0, 1.0, n + 1)
     u, v = np.meshgrid(t, t, indexing="ij")
     u, v = u.ravel(), v.ravel()
@@ -55,7 +63,7 @@ def lab_gamut_volume(npm, n: int = MESH_N) -> float:
     M = np.asarray(npm, dtype=float)
     if not np.all(np.isfinite(M)):
         return float("nan")
-    verts, tris = cube_surface(n)
+    verts, tris = _cube_surface(int(n))
     white = M @ np.ones(3)
     lab = XYZ_to_Lab(verts @ M.T, white)
     return abs(mesh_volume(lab, tris))
@@ -67,29 +75,49 @@ def lab_volume_coverage(npm, reference_npm, step: float = GRID_STEP) -> tuple[fl
     M, R = np.asarray(npm, dtype=float), np.asarray(reference_npm, dtype=float)
     if not (np.all(np.isfinite(M)) and np.all(np.isfinite(R))):
         return float("nan"), float("nan")
+    XYZ = _reference_grid(tuple(R.ravel()), float(step))
+    in_m = _inside(XYZ, np.linalg.inv(M))
+    cell = step ** 3
+    return int(np.count_nonzero(in_m)) * cell, len(XYZ) * cell
+
+
+@lru_cache(maxsize=8)
+def _reference_grid(reference: tuple, step: float) -> np.ndarray:
+    """XYZ (k, 3) of the regular CIELAB grid points inside the reference's solid, with the
+    reference's white; computed once per reference and step."""
+    R = np.array(reference, dtype=float).reshape(3, 3)
     white = R @ np.ones(3)
-    verts, _ = cube_surface(8)
+    verts, _ = _cube_surface(8)
     lab = XYZ_to_Lab(verts @ R.T, white)
     lo, hi = lab.min(axis=0) - step, lab.max(axis=0) + step
     L = np.arange(max(lo[0], 0.0) + step / 2, min(hi[0], 100.0), step)
     a = np.arange(lo[1] + step / 2, hi[1], step)
     b = np.arange(lo[2] + step / 2, hi[2], step)
-    Minv, Rinv = np.linalg.inv(M), np.linalg.inv(R)
+    Rinv = np.linalg.inv(R)
     A, B = np.meshgrid(a, b, indexing="ij")
-    inside_ref = inside_both = 0
+    inside = []
     for Lk in L:                                   # one lightness slice at a time keeps memory small
-        lab_k = np.stack([np.full(A.shape, Lk), A, B], -1)
-        XYZ = Lab_to_XYZ(lab_k, white)
-        in_r = _in_cube(XYZ @ Rinv.T)
-        in_m = _in_cube(XYZ @ Minv.T)
-        inside_ref += int(np.count_nonzero(in_r))
-        inside_both += int(np.count_nonzero(in_r & in_m))
-    cell = step ** 3
-    return inside_both * cell, inside_ref * cell
+        XYZ = Lab_to_XYZ(np.stack([np.full(A.shape, Lk), A, B], -1), white).reshape(-1, 3)
+        inside.append(XYZ[_inside(XYZ, Rinv)])
+    out = np.concatenate(inside) if inside else np.zeros((0, 3))
+    out.setflags(write=False)
+    return out
+
+
+def _inside(XYZ, inverse_npm, eps: float = 1e-12):
+    """Mask of the XYZ rows (k, 3) whose RGB (inverse NPM times XYZ) lies in [0, 1]³; one
+    channel at a time, which is several times faster than a (k, 3) @ (3, 3) product."""
+    X, Y, Z = XYZ[:, 0], XYZ[:, 1], XYZ[:, 2]
+    ok = np.ones(len(XYZ), dtype=bool)
+    for row in np.asarray(inverse_npm, dtype=float):
+        c = row[0] * X + row[1] * Y + row[2] * Z
+        ok &= (c >= -eps) & (c <= 1 + eps)
+    return ok
 
 
 def _in_cube(rgb, eps: float = 1e-12):
-    return np.all((rgb >= -eps) & (rgb <= 1 + eps), axis=-1)
+    r, g, b = rgb[..., 0], rgb[..., 1], rgb[..., 2]
+    return ((r >= -eps) & (r <= 1 + eps) & (g >= -eps) & (g <= 1 + eps) & (b >= -eps) & (b <= 1 + eps))
 
 
 def lightness_slice(npm, L: float, white_XYZ, half_width: float = 200.0, step: float = 1.0):
