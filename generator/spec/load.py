@@ -189,24 +189,49 @@ def apply_inheritance(sources: list[SourceSpec], problems: Problems) -> dict[str
     return out
 
 
-def load_specs(specs: Path):
-    """Return (list of Spec, warnings) or raise InputError with every problem found."""
+def load_specs(specs: Path, reuse=None, reused: dict | None = None):
+    """Return (list of Spec, warnings) or raise InputError with every problem found.
+    ``reuse`` and ``reused``: see ``load_documents``."""
     from ..measure.files import FolderFiles
 
     problems = Problems()
     paths = discover(specs, problems)
     documents = read_files(paths, problems, specs)
     files = FolderFiles(specs if specs.is_dir() else specs.parent, {display_path(p, specs): p for p in paths})
-    return load_documents(documents, problems, files)
+    return load_documents(documents, problems, files, reuse=reuse, reused=reused)
+
+
+class _CheckedOnDemand(dict):
+    """id -> checked values of a spec, checking a spec only when another spec asks for it
+    (a spec taken whole from a previous build was not checked again)."""
+
+    def __init__(self, checked: dict, pending: dict):
+        super().__init__(checked)
+        self._pending = pending            # id -> merged node not checked yet
+
+    def get(self, key, default=None):
+        if key not in self and key in self._pending:
+            v = SPEC.check(self._pending.pop(key), "", Problems())   # a reused spec had no problems
+            if v is not INVALID:
+                self[key] = v
+        return super().get(key, default)
+
+    def __iter__(self):
+        return iter(sorted(set(super().keys()) | set(self._pending)))
 
 
 def load_documents(documents: list[tuple[str, bytes]], problems: Problems | None = None, files=None,
-                   folders: dict[str, Path] | None = None):
+                   folders: dict[str, Path] | None = None, reuse=None, reused: dict | None = None):
     """load_specs for files already in memory, e.g. read from a git revision: a list of
     (file name as shown to people, bytes). ``files`` finds and reads the measurement files
     the specs name (``measure.files.FolderFiles``); without it, naming one is an error.
     ``folders`` gives the folder on disk of each shown name (where its spectra files are
-    read); by default that of the spec's real path in ``files``, else the shown name's folder."""
+    read); by default that of the spec's real path in ``files``, else the shown name's folder.
+
+    ``reuse(file, digests)`` (file name -> sha256 of every document) may return what a
+    previous build made of a spec whose inputs are unchanged; such a spec is neither checked
+    nor resolved again, its value goes to ``reused[file]`` and its warnings (``.warnings``
+    of the returned object's ``spec``) are reported again."""
     if folders is None:
         folders = {shown: p.parent for shown, p in getattr(files, "spec_paths", {}).items()}
     import hashlib
@@ -217,6 +242,14 @@ def load_documents(documents: list[tuple[str, bytes]], problems: Problems | None
     digests = {shown: hashlib.sha256(data).hexdigest() for shown, data in documents}
     sources = read_sources(documents, problems)
     merged = apply_inheritance(sources, problems)
+    pending = {}
+    if reuse is not None and not problems.errors:
+        for src in sources:
+            got = reuse(src.file, digests) if src.file in merged else None
+            if got is not None:
+                reused[src.file] = got
+                pending[src.id] = merged.pop(src.file)
+                problems.items.extend(got.spec.warnings)
     values = {}
     for src in sources:
         node = merged.get(src.file)
@@ -226,7 +259,7 @@ def load_documents(documents: list[tuple[str, bytes]], problems: Problems | None
         if v is not INVALID:
             values[src.file] = (src, node, v)
     result = []
-    by_id = {v["id"]: v for (_, _, v) in values.values()}
+    by_id = _CheckedOnDemand({v["id"]: v for (_, _, v) in values.values()}, pending)
     for file, (_, node, v) in values.items():
         spec = resolve_spec(file, node, v, by_id, problems, (folders or {}).get(file), files)
         if spec is not None:
