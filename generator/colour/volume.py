@@ -94,11 +94,19 @@ def _reference_grid(reference: tuple, step: float) -> np.ndarray:
     a = np.arange(lo[1] + step / 2, hi[1], step)
     b = np.arange(lo[2] + step / 2, hi[2], step)
     Rinv = np.linalg.inv(R)
-    A, B = np.meshgrid(a, b, indexing="ij")
     inside = []
-    for Lk in L:                                   # one lightness slice at a time keeps memory small
-        XYZ = Lab_to_XYZ(np.stack([np.full(A.shape, Lk), A, B], -1), white).reshape(-1, 3)
-        inside.append(XYZ[_inside(XYZ, Rinv)])
+    for Lk in L:
+        # on a lightness slice X depends on a* alone and Z on b* alone (CIE 15:2004 eq. 8.5
+        # inverted per channel), so each RGB channel is an outer sum of two 1-D terms
+        X = Lab_to_XYZ(np.stack([np.full(a.shape, Lk), a, np.zeros(a.shape)], -1), white)
+        Z = Lab_to_XYZ(np.stack([np.full(b.shape, Lk), np.zeros(b.shape), b], -1), white)
+        Xa, Yk, Zb = X[:, 0], X[0, 1], Z[:, 2]
+        ok = np.ones((len(a), len(b)), dtype=bool)
+        for row in Rinv:
+            c = (row[0] * Xa)[:, None] + (row[1] * Yk + row[2] * Zb)[None, :]
+            ok &= (c >= -1e-12) & (c <= 1 + 1e-12)
+        ia, ib = np.nonzero(ok)
+        inside.append(np.stack([Xa[ia], np.full(len(ia), Yk), Zb[ib]], -1))
     out = np.concatenate(inside) if inside else np.zeros((0, 3))
     out.setflags(write=False)
     return out
