@@ -1,7 +1,7 @@
 """The build measured against its limits: one command, a table and JSON.
 
     python bench/run.py [--specs 200] [--lots 20] [--units 5000] [--jobs 0] [--json FILE]
-                        [--quick] [--no-kernels] [--keep DIR]
+                        [--quick] [--no-kernels] [--limits] [--keep DIR]
 
 Writes a synthetic library (bench/library.py) into a temporary folder and measures, each
 as its own process where a user would run one (so imports and start-up count):
@@ -231,6 +231,8 @@ def main(argv=None) -> int:
     ap.add_argument("--json", metavar="FILE", help="also write the JSON report here")
     ap.add_argument("--quick", action="store_true", help="one incremental edit, smaller kernel batches")
     ap.add_argument("--no-kernels", action="store_true")
+    ap.add_argument("--limits", action="store_true",
+                    help="also time the refusal of hostile input (bench/limits.py: alias bombs, huge files)")
     ap.add_argument("--keep", metavar="DIR", help="build in DIR (kept) instead of a temporary folder")
     a = ap.parse_args(argv)
     t_start = time.perf_counter()
@@ -254,6 +256,11 @@ def main(argv=None) -> int:
               "targets": target_rows(builds, inproc), "kernels": kernels,
               "bench_seconds": time.perf_counter() - t_start}
     print_report(report)
+    if a.limits:
+        import limits
+
+        print("\nRefusing hostile input (each a fresh `colourspec check`):")
+        limits.main()
     text = json.dumps(report, indent=2, default=float)
     print("\n" + text)
     if a.json:
