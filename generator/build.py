@@ -79,7 +79,7 @@ def evaluate(specs_path: Path, memo=None, stages: dict | None = None, jobs: int 
     stages = stages if stages is not None else {}
     t0 = time.perf_counter()
     reused: dict = {}
-    specs, warnings = load_specs(specs_path, memo.reuse if memo is not None else None, reused)
+    specs, warnings = load_specs(specs_path, memo.reuse if memo is not None else None, reused, jobs)
     stages["load"] = time.perf_counter() - t0
     evaluated = evaluate_specs(specs, stages, jobs) + list(reused.values())
     evaluated.sort(key=lambda e: e.spec.id)
