@@ -31,6 +31,12 @@ class Summary:
     figures: int = 0
     seconds: float = 0.0
     reused: int = 0      # spec pages taken from the incremental-build cache
+    recalled: int = 0    # spec evaluations taken from the memo (generator/memo.py)
+    stages: dict = None  # seconds per pipeline stage
+
+    def __post_init__(self):
+        if self.stages is None:
+            self.stages = {}
 
     @property
     def failing(self) -> list[str]:
@@ -41,17 +47,45 @@ class Summary:
         return 1 if self.failing else 0
 
 
-def evaluate_specs(specs: list[Spec]) -> list[Evaluated]:
-    out = []
-    for spec in specs:
-        d = derive(spec)
-        out.append(Evaluated(spec, d, assess(spec, d)))
-    return out
+def _evaluate_one(spec: Spec) -> tuple[Evaluated, float, float]:
+    t0 = time.perf_counter()
+    d = derive(spec)
+    t1 = time.perf_counter()
+    a = assess(spec, d)
+    return Evaluated(spec, d, a), t1 - t0, time.perf_counter() - t1
 
 
-def evaluate(specs_path: Path) -> tuple[list[Evaluated], list]:
-    specs, warnings = load_specs(specs_path)
-    return evaluate_specs(specs), warnings
+def evaluate_specs(specs: list[Spec], stages: dict | None = None, jobs: int = 1) -> list[Evaluated]:
+    """Compute and assess each spec, in ``jobs`` worker processes when that is worth it.
+    ``stages`` gains the seconds spent computing and assessing (wall time, shared between
+    the two in proportion to the time the work took)."""
+    from .parallel import map_indexed
+
+    stages = stages if stages is not None else {}
+    t0 = time.perf_counter()
+    done = map_indexed(lambda i: _evaluate_one(specs[i]), len(specs), jobs)
+    wall = time.perf_counter() - t0
+    t_derive, t_assess = sum(d for _, d, _ in done), sum(a for _, _, a in done)
+    share = t_derive / (t_derive + t_assess) if t_derive + t_assess > 0 else 1.0
+    stages["compute"] = stages.get("compute", 0.0) + wall * share
+    stages["assess"] = stages.get("assess", 0.0) + wall * (1.0 - share)
+    return [e for e, _, _ in done]
+
+
+def evaluate(specs_path: Path, memo=None, stages: dict | None = None, jobs: int = 1) -> tuple[list[Evaluated], list]:
+    """Every spec of ``specs_path`` loaded, validated, resolved, computed and assessed. With
+    a memo (generator/memo.py), specs whose inputs are unchanged since the build that filled
+    it are taken from it whole."""
+    stages = stages if stages is not None else {}
+    t0 = time.perf_counter()
+    reused: dict = {}
+    specs, warnings = load_specs(specs_path, memo.reuse if memo is not None else None, reused, jobs)
+    stages["load"] = time.perf_counter() - t0
+    evaluated = evaluate_specs(specs, stages, jobs) + list(reused.values())
+    evaluated.sort(key=lambda e: e.spec.id)
+    if memo is not None:
+        memo.store(evaluated, {e.spec.file: e.spec.digest for e in evaluated})
+    return evaluated, warnings
 
 
 def results_of(evaluated: list[Evaluated]) -> dict:
@@ -67,31 +101,50 @@ def check(specs_path: Path) -> Summary:
 
 
 def build(specs_path: Path, out: Path, *, clean: bool = False, incremental: bool = True,
-          history: bool = False, site_url: str | None = None, reload: bool = False) -> Summary:
+          history: bool = False, site_url: str | None = None, reload: bool = False, jobs: int = 1) -> Summary:
     """Build the site into ``out``. Unless ``incremental`` is off, reuse the diagrams, their
     data files and the pages of unchanged specs from the cache beside ``out``; ``clean``
     empties it first. With ``history``, each spec page lists the git commits that changed
     its file. ``site_url`` (the site's public address) adds canonical links; ``reload``
-    adds the live-preview script that ``colourspec serve`` uses."""
+    adds the live-preview script that ``colourspec serve`` uses. ``jobs`` > 1 computes and
+    draws in that many worker processes; the site is the same bytes."""
     from .cache import Cache, cache_dir_for
     from .publish import check_output, publish
     from .render.site import render_site
 
     t0 = time.perf_counter()
-    evaluated, warnings = evaluate(specs_path)
-    results = results_of(evaluated)
     check_output(out, protect=(specs_path,))  # before anything (the cache beside it) is written
+    stages: dict = {}
+    memo = None
+    if incremental and specs_path.is_dir():
+        from .memo import EvaluationMemo
+
+        cdir = cache_dir_for(out)
+        if clean and cdir.exists():
+            import shutil
+
+            shutil.rmtree(cdir)
+        memo = EvaluationMemo(cdir / "evaluated", specs_path, skip=(out,))
+    evaluated, warnings = evaluate(specs_path, memo, stages, jobs)
+    t1 = time.perf_counter()
+    results = results_of(evaluated)
     histories = None
     if history:
         from .history import spec_histories
 
         histories = spec_histories(specs_path)
-    cache = Cache(cache_dir_for(out), clean=clean) if incremental else None
+    cache = Cache(cache_dir_for(out), clean=clean and memo is None) if incremental else None  # emptied above
     site, n_pages, n_figures = render_site(evaluated, results, cache, histories,
-                                           site_url=site_url, reload=reload)
+                                           site_url=site_url, reload=reload, jobs=jobs)
+    t2 = time.perf_counter()
+    stages["render"] = t2 - t1
     publish(site, out, protect=(specs_path,))
     if cache is not None:
         cache.prune()
-    summary = Summary(evaluated, warnings, results, n_pages, n_figures, time.perf_counter() - t0)
+    if memo is not None:
+        memo.prune()
+    stages["publish"] = time.perf_counter() - t2
+    summary = Summary(evaluated, warnings, results, n_pages, n_figures, time.perf_counter() - t0, stages=stages)
     summary.reused = cache.hits if cache is not None else 0
+    summary.recalled = memo.hits if memo is not None else 0
     return summary

@@ -28,6 +28,7 @@ from pathlib import Path
 from . import __version__
 
 FORMAT = "colourspec-cache/1"
+KEEP = {"evaluated"}     # the evaluation memo's folder (generator/memo.py)
 
 
 def cache_dir_for(out: Path) -> Path:
@@ -132,5 +133,5 @@ class Cache:
         if not self.root.is_dir():
             return
         for p in self.root.iterdir():
-            if p.name not in self.used:
+            if p.name not in self.used and p.name not in KEEP:
                 shutil.rmtree(p, ignore_errors=True) if p.is_dir() else p.unlink(missing_ok=True)

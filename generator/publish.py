@@ -218,9 +218,12 @@ def _publish(site: SiteFiles, out: Path, real: Path, protect: tuple[Path, ...]) 
         try:
             files = dict(site.files)
             files[MARKER] = MARKER_TEXT
+            made = {tmp}
             for rel in sorted(files):
                 target = tmp / rel
-                target.parent.mkdir(parents=True, exist_ok=True)
+                if target.parent not in made:
+                    target.parent.mkdir(parents=True, exist_ok=True)
+                    made.add(target.parent)
                 with open(target, "xb") as f:
                     f.write(files[rel])
             if epoch is not None:  # reproducible archives of the site: every mtime from SOURCE_DATE_EPOCH

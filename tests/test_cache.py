@@ -79,7 +79,7 @@ def test_the_cache_is_a_hidden_folder_beside_the_site_and_never_inside_it(librar
     by_id = {e.spec.id: e.spec for e in evaluated}
     assert C.cache_dir_for(out) == tmp_path / ".site.cache"
     assert sorted(p.name for p in (tmp_path / ".site.cache").iterdir()) == sorted(
-        C.spec_key(e.spec, by_id) for e in evaluated)
+        [C.spec_key(e.spec, by_id) for e in evaluated] + ["evaluated"])    # pages, and the memo
     assert not any("cache" in rel or "manifest" in rel for rel in files_of(out))
 
 
@@ -96,8 +96,9 @@ def test_entries_no_build_uses_are_pruned(library, tmp_path):
     (C.cache_dir_for(out) / "stale-entry").mkdir()
     (library.dir / "d.yaml").unlink()
     build(library.dir, out)
-    names = sorted(p.name for p in C.cache_dir_for(out).iterdir())
+    names = sorted(p.name for p in C.cache_dir_for(out).iterdir() if p.name != "evaluated")
     assert len(names) == 3 and "stale-entry" not in names
+    assert len(list((C.cache_dir_for(out) / "evaluated").iterdir())) == 3   # the memo is pruned too
 
 
 def test_a_damaged_entry_is_drawn_again(library, tmp_path):
@@ -284,7 +285,7 @@ def test_a_cached_spec_brings_back_each_diagram_with_its_numbers_and_the_page(li
     evaluated = build(library.dir, out).evaluated
     by_id = {e.spec.id: e.spec for e in evaluated}
     files = C.Cache(C.cache_dir_for(out)).get(C.spec_key(by_id["a"], by_id))
-    assert sorted(files) == ["index.html"] + [f"{k}.{ext}" for k in ("uv", "white", "xy")
+    assert sorted(files) == ["index.html", "results.json"] + [f"{k}.{ext}" for k in ("uv", "white", "xy")
                                               for ext in ("csv", "json", "svg")]
     site = files_of(out)
     assert all(files[name] == site[f"a/{name}"] for name in files)
@@ -325,7 +326,7 @@ def test_a_cached_spec_brings_back_its_spectra_and_volume_figures_with_their_num
     evaluated = build(spec_dir.dir, out).evaluated
     by_id = {e.spec.id: e.spec for e in evaluated}
     files = C.Cache(C.cache_dir_for(out)).get(C.spec_key(by_id["s"], by_id))
-    assert sorted(files) == ["index.html"] + [f"{k}.{ext}" for k in ("spectra", "uv", "volume", "white", "xy")
+    assert sorted(files) == ["index.html", "results.json"] + [f"{k}.{ext}" for k in ("spectra", "uv", "volume", "white", "xy")
                                               for ext in ("csv", "json", "svg")]
     site = files_of(out)
     assert all(files[name] == site[f"s/{name}"] for name in files)

@@ -78,3 +78,30 @@ def test_lightness_slice_marks_the_white_axis_inside():
     assert A.shape == B.shape == inside.shape
     assert inside[np.argmin(np.abs(A[:, 0])), np.argmin(np.abs(B[0]))]   # a* = b* = 0 is grey: inside
     assert not inside[0, 0]                                               # a* = b* = -200: outside
+
+
+@pytest.mark.parametrize("spec, ref", [("p3-d65", "bt2020"), ("bt2020", "srgb"), ("ntsc-1953", "adobe-rgb")])
+def test_interval_counting_equals_testing_every_grid_point(spec, ref):
+    """lab_volume_coverage counts each a* row's inside points by binary search on Z; the
+    same counts as converting every grid point to RGB and testing it (brute force here)."""
+    from generator.colour.difference import Lab_to_XYZ, XYZ_to_Lab
+
+    step = 3.0
+    M, R = _npm(spec), _npm(ref)
+    white = R @ np.ones(3)
+    lab = XYZ_to_Lab(cube_surface(8)[0] @ R.T, white)
+    lo, hi = lab.min(axis=0) - step, lab.max(axis=0) + step
+    L = np.arange(max(lo[0], 0.0) + step / 2, min(hi[0], 100.0), step)
+    a = np.arange(lo[1] + step / 2, hi[1], step)
+    b = np.arange(lo[2] + step / 2, hi[2], step)
+    grid = np.stack(np.meshgrid(L, a, b, indexing="ij"), -1).reshape(-1, 3)
+    XYZ = Lab_to_XYZ(grid, white)
+
+    def inside(npm):
+        rgb = XYZ @ np.linalg.inv(npm).T
+        return np.all((rgb >= -1e-12) & (rgb <= 1 + 1e-12), axis=-1)
+
+    in_r = inside(R)
+    covered, whole = lab_volume_coverage(M, R, step=step)
+    assert whole == np.count_nonzero(in_r) * step ** 3
+    assert covered == np.count_nonzero(in_r & inside(M)) * step ** 3

@@ -1,6 +1,6 @@
 """Resource limits: oversized files, too many values, alias bombs and deep nesting are
 refused with a positioned problem before the document is built in memory; the limits
-come from COLOURSPEC_MAX_* variables. (Speed and memory figures: tests/bench_limits.py.)"""
+come from COLOURSPEC_MAX_* variables. (Speed and memory figures: bench/limits.py.)"""
 from __future__ import annotations
 
 import tracemalloc

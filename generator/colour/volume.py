@@ -12,6 +12,8 @@ CIELAB grid, and a grid point is in a solid when XYZ → RGB through the inverse
 """
 from __future__ import annotations
 
+from functools import lru_cache
+
 import numpy as np
 
 from .difference import Lab_to_XYZ, XYZ_to_Lab
@@ -22,6 +24,12 @@ GRID_STEP = 1.0      # CIELAB units between coverage grid points
 
 def cube_surface(n: int = MESH_N):
     """Vertices (k, 3) and outward-facing triangles (m, 3) of the RGB unit cube's surface."""
+    verts, tris = _cube_surface(int(n))
+    return verts.copy(), tris.copy()
+
+
+@lru_cache(maxsize=4)
+def _cube_surface(n: int):
     t = np.linspace(0.0, 1.0, n + 1)
     u, v = np.meshgrid(t, t, indexing="ij")
     u, v = u.ravel(), v.ravel()
@@ -55,7 +63,7 @@ def lab_gamut_volume(npm, n: int = MESH_N) -> float:
     M = np.asarray(npm, dtype=float)
     if not np.all(np.isfinite(M)):
         return float("nan")
-    verts, tris = cube_surface(n)
+    verts, tris = _cube_surface(int(n))
     white = M @ np.ones(3)
     lab = XYZ_to_Lab(verts @ M.T, white)
     return abs(mesh_volume(lab, tris))
@@ -63,33 +71,60 @@ def lab_gamut_volume(npm, n: int = MESH_N) -> float:
 
 def lab_volume_coverage(npm, reference_npm, step: float = GRID_STEP) -> tuple[float, float]:
     """(covered, reference) volumes on a CIELAB grid: the grid volume of the reference
-    solid and of its part inside the solid of ``npm``, both with the reference's white."""
+    solid and of its part inside the solid of ``npm``, both with the reference's white.
+
+    A grid point is inside a solid when its RGB (inverse NPM times XYZ) lies in [0, 1]³.
+    On one lightness slice X depends on a* alone and Z on b* alone (CIE 15:2004 eq. 8.5
+    inverted per channel), so along a row of constant a* each RGB channel is linear in Z,
+    and Z falls monotonically with b*: the row's inside points are the grid b* whose Z lies
+    in one interval, counted by binary search instead of testing every point."""
     M, R = np.asarray(npm, dtype=float), np.asarray(reference_npm, dtype=float)
     if not (np.all(np.isfinite(M)) and np.all(np.isfinite(R))):
         return float("nan"), float("nan")
     white = R @ np.ones(3)
-    verts, _ = cube_surface(8)
+    verts, _ = _cube_surface(8)
     lab = XYZ_to_Lab(verts @ R.T, white)
     lo, hi = lab.min(axis=0) - step, lab.max(axis=0) + step
     L = np.arange(max(lo[0], 0.0) + step / 2, min(hi[0], 100.0), step)
     a = np.arange(lo[1] + step / 2, hi[1], step)
     b = np.arange(lo[2] + step / 2, hi[2], step)
-    Minv, Rinv = np.linalg.inv(M), np.linalg.inv(R)
-    A, B = np.meshgrid(a, b, indexing="ij")
-    inside_ref = inside_both = 0
-    for Lk in L:                                   # one lightness slice at a time keeps memory small
-        lab_k = np.stack([np.full(A.shape, Lk), A, B], -1)
-        XYZ = Lab_to_XYZ(lab_k, white)
-        in_r = _in_cube(XYZ @ Rinv.T)
-        in_m = _in_cube(XYZ @ Minv.T)
-        inside_ref += int(np.count_nonzero(in_r))
-        inside_both += int(np.count_nonzero(in_r & in_m))
+    Rinv, Minv = np.linalg.inv(R), np.linalg.inv(M)
+    n_ref = n_both = 0
+    for Lk in L:
+        X = Lab_to_XYZ(np.stack([np.full(a.shape, Lk), a, np.zeros(a.shape)], -1), white)
+        Z = Lab_to_XYZ(np.stack([np.full(b.shape, Lk), np.zeros(b.shape), b], -1), white)
+        Xa, Yk, Z_sorted = X[:, 0], X[0, 1], np.sort(Z[:, 2])
+        lo_r, hi_r = _z_interval(Rinv, Xa, Yk)
+        lo_m, hi_m = _z_interval(Minv, Xa, Yk)
+        n_ref += _count_between(Z_sorted, lo_r, hi_r)
+        n_both += _count_between(Z_sorted, np.maximum(lo_r, lo_m), np.minimum(hi_r, hi_m))
     cell = step ** 3
-    return inside_both * cell, inside_ref * cell
+    return n_both * cell, n_ref * cell
+
+
+def _z_interval(inverse_npm, Xa, Yk, eps: float = 1e-12):
+    """Per a* row, the interval of Z where every channel r0·X + r1·Y + r2·Z is in [0, 1]."""
+    lo = np.full(Xa.shape, -np.inf)
+    hi = np.full(Xa.shape, np.inf)
+    for r0, r1, r2 in np.asarray(inverse_npm, dtype=float):
+        base = r0 * Xa + r1 * Yk
+        if r2 == 0.0:
+            out = (base < -eps) | (base > 1 + eps)
+            lo, hi = np.where(out, np.inf, lo), np.where(out, -np.inf, hi)
+            continue
+        z1, z2 = (-eps - base) / r2, (1 + eps - base) / r2
+        lo, hi = np.maximum(lo, np.minimum(z1, z2)), np.minimum(hi, np.maximum(z1, z2))
+    return lo, hi
+
+
+def _count_between(sorted_values, lo, hi) -> int:
+    n = np.searchsorted(sorted_values, hi, side="right") - np.searchsorted(sorted_values, lo, side="left")
+    return int(np.sum(np.clip(n, 0, None)))
 
 
 def _in_cube(rgb, eps: float = 1e-12):
-    return np.all((rgb >= -eps) & (rgb <= 1 + eps), axis=-1)
+    r, g, b = rgb[..., 0], rgb[..., 1], rgb[..., 2]
+    return ((r >= -eps) & (r <= 1 + eps) & (g >= -eps) & (g <= 1 + eps) & (b >= -eps) & (b <= 1 + eps))
 
 
 def lightness_slice(npm, L: float, white_XYZ, half_width: float = 200.0, step: float = 1.0):

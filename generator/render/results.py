@@ -43,3 +43,18 @@ def results_document(entries: list[dict]) -> dict:
 def dumps(doc: dict) -> str:
     """Stable JSON: sorted keys are not used (order is meaningful), floats as repr, NaN refused."""
     return json.dumps(doc, indent=2, ensure_ascii=False, allow_nan=False) + "\n"
+
+
+def dumps_entry(entry: dict) -> str:
+    """One spec's entry as its own results.json (the same text as inside the whole document)."""
+    return json.dumps(entry, indent=2, ensure_ascii=False, allow_nan=False) + "\n"
+
+
+def dumps_from_entries(doc: dict, entry_texts: list[str]) -> str:
+    """``dumps(doc)`` for a document whose "specs" entries are already encoded by
+    ``dumps_entry`` (so an incremental build encodes only the specs that changed)."""
+    head = dumps({**doc, "specs": []})
+    if not entry_texts:
+        return head
+    body = ",\n".join("    " + t.rstrip("\n").replace("\n", "\n    ") for t in entry_texts)
+    return head[: -len("[]\n}\n")] + "[\n" + body + "\n  ]\n}\n"

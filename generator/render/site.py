@@ -14,7 +14,7 @@ from .contexts import IndexContext, SpecContext
 from .lots import _units_view, lot_pages, page_names
 from .pages import (CAUTION, CAUTION_CATEGORIES, decision_text, environment, fmt, methods, render_markdown,
                     row_view, templates_dir)
-from .results import dumps
+from .results import dumps_entry, dumps_from_entries
 from .swatch import swatch_hex
 
 SYMBOLS = {"pass": "✓", "fail": "✗", "indeterminate": "?"}
@@ -204,10 +204,11 @@ def index_context(evaluated, site_url: str | None = None) -> IndexContext:
             "root": "", "canonical": canonical(site_url, "index.html"), "reload": False}
 
 
-def spec_files(e, env, history=None, site_url: str | None = None, reload: bool = False) -> dict[str, bytes]:
+def spec_files(e, env, history=None, site_url: str | None = None, reload: bool = False,
+               entry: dict | None = None) -> dict[str, bytes]:
     """The costly part of a spec's output (name -> bytes): each diagram's SVG with its
-    numbers as CSV and JSON, the page, and its lot and supplier pages with their diagrams
-    and histograms."""
+    numbers as CSV and JSON, the page, its lot and supplier pages with their diagrams
+    and histograms, and its ``entry`` of results.json encoded."""
     from .diagrams import spec_figures  # imported only when a figure is drawn (matplotlib is slow to load)
 
     figs = spec_figures(e)
@@ -221,6 +222,8 @@ def spec_files(e, env, history=None, site_url: str | None = None, reload: bool =
     files["index.html"] = env.get_template("spec.html").render(**ctx).encode("utf-8")
     for path, content in lot_pages(e, env, decision_text(e.spec), site_url, reload):
         files[path] = content.encode("utf-8") if isinstance(content, str) else content
+    if entry is not None:
+        files["results.json"] = dumps_entry(entry).encode("utf-8")
     return files
 
 
@@ -236,35 +239,50 @@ def _key_extra(history, site_url: str | None, reload: bool) -> str:
 
 
 def render_site(evaluated, results: dict, cache=None, histories=None, *, site_url: str | None = None,
-                reload: bool = False):
+                reload: bool = False, jobs: int = 1):
     """The whole site as SiteFiles. With a cache (generator/cache.py), a spec whose inputs
     are unchanged takes its diagrams, their data files and its page from it instead of
     drawing them again. ``histories`` (file -> history entries, generator/history.py) adds
     a history section; ``site_url`` adds canonical links; ``reload`` adds the
-    live-preview script (``serve``)."""
+    live-preview script (``serve``). ``jobs`` > 1 draws the specs not in the cache in that
+    many worker processes (generator/parallel.py); the bytes are the same."""
     from ..cache import spec_key
+    from ..parallel import map_indexed
 
     env = environment()
     site = SiteFiles()
     n_fig = 0
     by_id = {e.spec.id: e.spec for e in evaluated}
+    entries = {s["id"]: s for s in results["specs"]}
+    history_of = {e.spec.id: histories.get(e.spec.file, []) if histories is not None else None for e in evaluated}
+    keys, files_of = {}, {}
     for e in evaluated:
-        history = histories.get(e.spec.file, []) if histories is not None else None
-        key = spec_key(e.spec, by_id, _key_extra(history, site_url, reload)) if cache is not None else ""
-        files = cache.get(key) if cache is not None else None
-        if files is None:
-            files = spec_files(e, env, history, site_url, reload)
-            if cache is not None:
-                cache.put(key, files)
+        if cache is not None:
+            keys[e.spec.id] = spec_key(e.spec, by_id, _key_extra(history_of[e.spec.id], site_url, reload))
+            got = cache.get(keys[e.spec.id])
+            if got is not None and "results.json" in got:
+                files_of[e.spec.id] = got
+    todo = [e for e in evaluated if e.spec.id not in files_of]
+
+    def draw(i: int) -> dict[str, bytes]:
+        e = todo[i]
+        return spec_files(e, env, history_of[e.spec.id], site_url, reload, entries[e.spec.id])
+
+    for e, files in zip(todo, map_indexed(draw, len(todo), jobs), strict=True):
+        files_of[e.spec.id] = files
+        if cache is not None:
+            cache.put(keys[e.spec.id], files)
+    entry_texts = {}
+    for e in evaluated:
+        files = files_of[e.spec.id]
         n_fig += sum(name.endswith(".svg") for name in files)
         for name in sorted(files):
             site.add(f"{e.spec.id}/{name}", files[name])
-        entry = next(s for s in results["specs"] if s["id"] == e.spec.id)
-        site.add(f"{e.spec.id}/results.json", json.dumps(entry, indent=2, ensure_ascii=False) + "\n")
+        entry_texts[e.spec.id] = files["results.json"].decode("utf-8")
     ictx = index_context(evaluated, site_url)
     ictx["reload"] = reload
     site.add("index.html", env.get_template("index.html").render(**ictx))
-    site.add("results.json", dumps(results))
+    site.add("results.json", dumps_from_entries(results, [entry_texts[s["id"]] for s in results["specs"]]))
     static = templates_dir() / "static"
     for p in sorted(static.rglob("*")):
         if p.is_file():

@@ -10,7 +10,7 @@ Each is refused with a FILE:LINE:COL problem (exit 2) before the document is bui
 memory, so a hostile file costs time and memory in proportion to the limit, not to
 what it would expand to. The node limit also bounds the work on a document that passes
 it: a spec needs a few hundred values (a few thousand with many inline units), and
-parsing 50000 values took about 0.6 s on a shared 2-core machine (tests/bench_limits.py).
+parsing 50000 values took about 0.6 s on a shared 2-core machine (bench/limits.py).
 A setting that is not a whole number in range is a usage error (exit 2).
 """
 from __future__ import annotations

@@ -189,24 +189,51 @@ def apply_inheritance(sources: list[SourceSpec], problems: Problems) -> dict[str
     return out
 
 
-def load_specs(specs: Path):
-    """Return (list of Spec, warnings) or raise InputError with every problem found."""
+def load_specs(specs: Path, reuse=None, reused: dict | None = None, jobs: int = 1):
+    """Return (list of Spec, warnings) or raise InputError with every problem found.
+    ``reuse`` and ``reused``: see ``load_documents``."""
     from ..measure.files import FolderFiles
 
     problems = Problems()
     paths = discover(specs, problems)
     documents = read_files(paths, problems, specs)
     files = FolderFiles(specs if specs.is_dir() else specs.parent, {display_path(p, specs): p for p in paths})
-    return load_documents(documents, problems, files)
+    return load_documents(documents, problems, files, reuse=reuse, reused=reused, jobs=jobs)
+
+
+class _CheckedOnDemand(dict):
+    """id -> checked values of a spec, checking a spec only when another spec asks for it
+    (a spec taken whole from a previous build was not checked again)."""
+
+    def __init__(self, checked: dict, pending: dict):
+        super().__init__(checked)
+        self._pending = pending            # id -> merged node not checked yet
+
+    def get(self, key, default=None):
+        if key not in self and key in self._pending:
+            v = SPEC.check(self._pending.pop(key), "", Problems())   # a reused spec had no problems
+            if v is not INVALID:
+                self[key] = v
+        return super().get(key, default)
+
+    def __iter__(self):
+        return iter(sorted(set(super().keys()) | set(self._pending)))
 
 
 def load_documents(documents: list[tuple[str, bytes]], problems: Problems | None = None, files=None,
-                   folders: dict[str, Path] | None = None):
+                   folders: dict[str, Path] | None = None, reuse=None, reused: dict | None = None,
+                   jobs: int = 1):
     """load_specs for files already in memory, e.g. read from a git revision: a list of
     (file name as shown to people, bytes). ``files`` finds and reads the measurement files
     the specs name (``measure.files.FolderFiles``); without it, naming one is an error.
     ``folders`` gives the folder on disk of each shown name (where its spectra files are
-    read); by default that of the spec's real path in ``files``, else the shown name's folder."""
+    read); by default that of the spec's real path in ``files``, else the shown name's folder.
+
+    ``reuse(file, digests)`` (file name -> sha256 of every document) may return what a
+    previous build made of a spec whose inputs are unchanged; such a spec is neither checked
+    nor resolved again, its value goes to ``reused[file]`` and its warnings (``.warnings``
+    of the returned object's ``spec``) are reported again. ``jobs`` > 1 resolves the specs
+    (reading their measurement and spectra files) in that many worker processes."""
     if folders is None:
         folders = {shown: p.parent for shown, p in getattr(files, "spec_paths", {}).items()}
     import hashlib
@@ -217,6 +244,14 @@ def load_documents(documents: list[tuple[str, bytes]], problems: Problems | None
     digests = {shown: hashlib.sha256(data).hexdigest() for shown, data in documents}
     sources = read_sources(documents, problems)
     merged = apply_inheritance(sources, problems)
+    pending = {}
+    if reuse is not None and not problems.errors:
+        for src in sources:
+            got = reuse(src.file, digests) if src.file in merged else None
+            if got is not None:
+                reused[src.file] = got
+                pending[src.id] = merged.pop(src.file)
+                problems.items.extend(got.spec.warnings)
     values = {}
     for src in sources:
         node = merged.get(src.file)
@@ -226,9 +261,23 @@ def load_documents(documents: list[tuple[str, bytes]], problems: Problems | None
         if v is not INVALID:
             values[src.file] = (src, node, v)
     result = []
-    by_id = {v["id"]: v for (_, _, v) in values.values()}
-    for file, (_, node, v) in values.items():
-        spec = resolve_spec(file, node, v, by_id, problems, (folders or {}).get(file), files)
+    by_id = _CheckedOnDemand({v["id"]: v for (_, _, v) in values.values()}, pending)
+    todo = list(values.items())
+
+    def resolve_one(i: int):
+        """Resolve one spec against a copy of the problems so far (its warnings are picked
+        from them); returns the spec and the problems it added. Runs in a worker process
+        when ``jobs`` > 1, so nothing here may rely on changing shared state."""
+        file, (_, node, v) = todo[i]
+        local = Problems(list(problems.items))
+        spec = resolve_spec(file, node, v, by_id, local, (folders or {}).get(file), files)
+        return spec, local.items[len(problems.items):]
+
+    from ..parallel import map_indexed
+
+    resolved = map_indexed(resolve_one, len(todo), jobs, min_items=8)
+    for (file, (_, node, v)), (spec, added) in zip(todo, resolved, strict=True):
+        problems.items.extend(added)
         if spec is not None:
             spec.source = node
             spec.digest = digests.get(file, "")

@@ -1,5 +1,5 @@
 """How long refusing hostile input takes and how much memory it uses: prints figures,
-asserts nothing (run: python tests/bench_limits.py). Each case runs `colourspec check`
+asserts nothing (run: python bench/limits.py, or python bench/run.py --limits). Each case runs `colourspec check`
 in a fresh process: the whole run's time including start-up, the time spent in check
 itself, and the process's peak resident set size. Quote medians of several runs on a
 shared machine."""
@@ -59,7 +59,7 @@ def run(name: str, data: bytes | None, sparse: int = 0) -> None:
               f"peak RSS {rss / 1024:5.0f} MiB  {first[:80]}")
 
 
-if __name__ == "__main__":
+def main() -> None:
     print("process start-up alone (python -m generator --version):", end=" ")
     t0 = time.perf_counter()
     subprocess.run([sys.executable, "-m", "generator", "--version"], cwd=ROOT, capture_output=True)
@@ -67,3 +67,7 @@ if __name__ == "__main__":
     for name, make in CASES.items():
         run(name, make())
     run("sparse file of 64 GiB", None, sparse=64 * 1024**3)
+
+
+if __name__ == "__main__":
+    main()
