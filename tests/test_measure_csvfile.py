@@ -94,3 +94,51 @@ def test_spectral_headers_must_increase_and_not_mix_with_colour_columns():
     with pytest.raises(ReadError) as e:
         parse_csv("serial,channel,x,y,400,410,420\n", "s.csv")
     assert "found both" in e.value.message
+
+
+def _records_equal(a, b):
+    import numpy as np
+
+    for f in ("serial", "lot", "supplier", "channel", "point"):
+        assert getattr(a, f) == getattr(b, f), f
+    for f in ("x", "y", "Y", "line"):
+        np.testing.assert_array_equal(getattr(a, f), getattr(b, f))
+
+
+PLAIN = """\
+# comment before the header
+serial, lot ,channel,x,y,Y
+
+S1,L1,white,0.3127,0.3290,250
+  # an indented comment
+S1,L1, red ,0.640,0.330,
+S2 ,L1,white,\t0.3130,0.3291,251.5
+   \t
+S2,L1,red,0.641,0.331,60
+"""
+
+
+def test_the_fast_unquoted_reader_gives_the_cells_of_the_csv_module():
+    from generator.measure.csvfile import parse_csv
+
+    plain = parse_csv(PLAIN, "m.csv")
+    quoted = parse_csv(PLAIN.replace("S1,L1,white", '"S1",L1,white'), "m.csv")   # read by the csv module
+    _records_equal(plain, quoted)
+    assert plain.serial == ["S1", "S1", "S2", "S2"] and plain.channel == ["white", "red", "white", "red"]
+    assert list(plain.line) == [4, 6, 7, 9]
+
+
+@pytest.mark.parametrize("bad_line", [4, 7, 9])
+def test_a_row_of_the_wrong_width_is_reported_at_its_line_by_both_readers(bad_line):
+    from generator.measure.csvfile import parse_csv
+    from generator.measure.records import ReadError
+
+    lines = PLAIN.splitlines()
+    lines[bad_line - 1] += ",extra"
+    text = "\n".join(lines) + "\n"
+    got = []
+    for t in (text, text.replace("S1,L1,white", '"S1",L1,white')):
+        with pytest.raises(ReadError) as e:
+            parse_csv(t, "m.csv")
+        got.append((e.value.line, str(e.value)))
+    assert got[0] == got[1] and got[0][0] == bad_line
