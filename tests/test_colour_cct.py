@@ -357,3 +357,16 @@ def xy_to_uv1960_ref(xy):
 def test_unknown_observer_is_an_error_naming_the_known_ones():
     with pytest.raises(ValueError, match="unknown observer 'cie2006'; known: cie1931-2, cie1964-10"):
         cct_duv_from_uv([0.2, 0.3], "cie2006")
+
+
+def test_more_points_than_one_block_give_each_point_its_own_answer():
+    from generator.colour.cct import _BLOCK
+
+    uv, T, D = _dense_points(n_T=1000, duv=np.linspace(-0.05, 0.05, 21))
+    assert len(uv) > 2 * _BLOCK
+    uv[123] = np.nan
+    cct, duv = cct_duv_from_uv(uv)
+    part = slice(_BLOCK - 50, _BLOCK + 50)
+    np.testing.assert_array_equal(cct_duv_from_uv(uv[part])[0], cct[part])
+    assert np.isnan(cct[123]) and np.isnan(duv[123])
+    np.testing.assert_allclose(np.delete(cct, 123), np.delete(T, 123), rtol=0, atol=INTERPOLATION_CCT_TOL_K)

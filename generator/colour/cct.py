@@ -51,7 +51,8 @@ TUBE = 0.07                            # fast path only this near the locus (rad
 _NEWTON_FAST = 3
 _NEWTON_MAX = 12
 _CONVERGED = 1e-7                      # last Newton step (table steps) counted as converged: error ~ its square
-_CHUNK = 1024
+_CHUNK = 1024                          # slow path and exact method: points per block
+_BLOCK = 8192                          # fast path: points per block
 _COARSE = 16
 
 
@@ -198,6 +199,15 @@ def cct_duv_from_uv(uv, observer: str = "cie1931-2"):
     shape = uv.shape[:-1]
     flat = uv.reshape(-1, 2)
     table = locus_table(observer)
+    if len(flat) <= _BLOCK:
+        cct, duv = _cct_duv_flat(table, flat)
+    else:   # in blocks, so that the temporaries stay in cache
+        parts = [_cct_duv_flat(table, flat[i:i + _BLOCK]) for i in range(0, len(flat), _BLOCK)]
+        cct, duv = np.concatenate([c for c, _ in parts]), np.concatenate([d for _, d in parts])
+    return cct.reshape(shape), duv.reshape(shape)
+
+
+def _cct_duv_flat(table: LocusTable, flat):
     pu, pv = flat[:, 0], flat[:, 1]
     # NaN, inf and points far outside the diagram end as NaN below: no warnings on the way
     with np.errstate(over="ignore", invalid="ignore", divide="ignore"):
@@ -220,9 +230,7 @@ def cct_duv_from_uv(uv, observer: str = "cie1931-2"):
         T = 1e6 / m
     sign = np.where(pv >= v, 1.0, -1.0)
     good = ok & (T >= T_MIN) & (T <= T_MAX) & np.isfinite(dist)
-    cct = np.where(good, T, np.nan)
-    duv = np.where(good, sign * dist, np.nan)
-    return cct.reshape(shape), duv.reshape(shape)
+    return np.where(good, T, np.nan), np.where(good, sign * dist, np.nan)
 
 
 def cct_duv_from_xy(xy, observer: str = "cie1931-2"):
@@ -260,7 +268,7 @@ def cct_duv_from_uv_exact(uv, observer: str = "cie1931-2"):
                 fp = (dq * dq).sum(axis=-1) + (r * d2q).sum(axis=-1)
                 step = np.where(fp > 0, f / fp, 0.0)
                 T = np.clip(T - step, T_MIN * 0.995, T_MAX * 1.005)
-                if np.all(np.abs(step) <= 1e-12 * T):   # converged (quadratically) for every point
+                if np.all(np.abs(step) <= 1e-10 * T):   # converged (quadratically) for every point
                     break
             q = planck_uv(T, observer=observer)
             dist = np.hypot(*(p - q).T)
