@@ -16,8 +16,9 @@ start value is the bilinear interpolation of its cell, and three Newton steps on
 d/dm |uv(m) − p|² = 0 on the interpolant converge to the foot. Points in a cell farther
 than 0.07 from the locus (0.7 × its smallest radius of curvature, 0.10 at about 5200 K,
 so that nearer points have a single nearest point), near the ends of the table, or where
-Newton has not converged take the slow path: the nearest node of the whole table, then
-Newton steps until they converge.
+Newton has not converged take the slow path: the nearest node of the table (a search on
+every 16th node, then on the 65 nodes around the winner), then Newton steps until they
+converge.
 
 Interpolation error, the only approximation. The cubic Hermite interpolant errs by
 h⁴/384 · max|uv⁗| in position and by O(h³) in its tangent (de Boor, A Practical Guide to
