@@ -21,33 +21,33 @@ def _shoelace(p):
 
 
 def _inside_contribution(ax, ay, bx, by, px, py, strict_same_direction: bool):
-    """½ Σ (x dy − y dx) over the parts of segments a→b (coordinates (n, m) each) inside the
-    convex counter-clockwise polygons with vertices (px, py) (n, k), one polygon per row."""
-    dx, dy = (bx - ax)[:, :, None], (by - ay)[:, :, None]             # (n, m, 1)
-    ex = (np.roll(px, -1, axis=1) - px)[:, None, :]                   # (n, 1, k) edge vectors
-    ey = (np.roll(py, -1, axis=1) - py)[:, None, :]
-    # side of the edge line, s(t) = s0 + t·ds, inside where s >= 0 (counter-clockwise polygon)
-    s0 = ex * (ay[:, :, None] - py[:, None, :]) - ey * (ax[:, :, None] - px[:, None, :])
-    ds = ex * dy - ey * dx
+    """½ Σ (x dy − y dx) over the parts of segments a→b (coordinates (m, n): segment, row)
+    inside the convex counter-clockwise polygons with vertices (px, py) (k, n), one polygon
+    per row n. Rows run along the last axis, so every reduction is over a short first axis."""
+    dx, dy = bx - ax, by - ay                                      # (m, n)
+    ex, ey = np.roll(px, -1, axis=0) - px, np.roll(py, -1, axis=0) - py   # (k, n) edge vectors
+    # side of each edge line, s(t) = s0 + t·ds, inside where s >= 0 (counter-clockwise polygon)
+    s0 = ex[:, None] * (ay[None] - py[:, None]) - ey[:, None] * (ax[None] - px[:, None])   # (k, m, n)
+    ds = ex[:, None] * dy[None] - ey[:, None] * dx[None]
     with np.errstate(divide="ignore", invalid="ignore"):
         t = -s0 / ds
-    t0 = np.maximum(0.0, np.where(ds > 0, t, -np.inf).max(axis=-1))    # enters across this edge
-    t1 = np.minimum(1.0, np.where(ds < 0, t, np.inf).min(axis=-1))     # leaves across this one
+    t0 = np.maximum(0.0, np.where(ds > 0, t, -np.inf).max(axis=0))     # enters across this edge
+    t1 = np.minimum(1.0, np.where(ds < 0, t, np.inf).min(axis=0))      # leaves across this one
     # parallel to an edge line: wholly outside when on its outer side
     parallel = ds == 0
-    out = np.any(parallel & (s0 < 0), axis=-1)
+    out = np.any(parallel & (s0 < 0), axis=0)
     if strict_same_direction:
         # on an edge line and running the same way as that edge: already counted as P's edge
-        out |= np.any(parallel & (s0 == 0) & (ex * dx + ey * dy > 0), axis=-1)
+        same = ex[:, None] * dx[None] + ey[:, None] * dy[None] > 0
+        out |= np.any(parallel & (s0 == 0) & same, axis=0)
     keep = ~out & (t1 > t0)
-    dx, dy = dx[..., 0], dy[..., 0]
     x0, y0 = ax + t0 * dx, ay + t0 * dy
     x1, y1 = ax + t1 * dx, ay + t1 * dy
     # Green's theorem on a straight piece p→q: ½ (p_x q_y − p_y q_x)
-    return np.where(keep, 0.5 * (x0 * y1 - y0 * x1), 0.0).sum(axis=-1)
+    return np.where(keep, 0.5 * (x0 * y1 - y0 * x1), 0.0).sum(axis=0)
 
 
-_BLOCK = 4096   # rows per block: the (rows, m, k) temporaries then stay in cache
+_BLOCK = 8192   # rows per block: the (k, m, rows) temporaries then stay in cache
 
 
 def clip_area(subject, clips):
@@ -60,15 +60,15 @@ def clip_area(subject, clips):
 
 
 def _clip_area(subject, clips):
-    n, k, _ = clips.shape
     signed = _shoelace(clips)
     clips = np.where((signed >= 0)[:, None, None], clips, clips[:, ::-1])
-    P = np.broadcast_to(np.asarray(subject, dtype=float), (n,) + np.shape(subject))
-    Px, Py = P[..., 0], P[..., 1]
-    Qx, Qy = np.ascontiguousarray(clips[..., 0]), np.ascontiguousarray(clips[..., 1])
+    P = np.asarray(subject, dtype=float)
+    Px, Py = P[:, 0:1], P[:, 1:2]                                  # (m, 1): the same for every row
+    Qx, Qy = np.ascontiguousarray(clips[..., 0].T), np.ascontiguousarray(clips[..., 1].T)   # (k, n)
+    Pxb, Pyb = np.broadcast_to(Px, (len(P), len(clips))), np.broadcast_to(Py, (len(P), len(clips)))
     # a degenerate clip (zero area) has no inside: its area of intersection is 0
-    area = (_inside_contribution(Px, Py, np.roll(Px, -1, axis=1), np.roll(Py, -1, axis=1), Qx, Qy, False)
-            + _inside_contribution(Qx, Qy, np.roll(Qx, -1, axis=1), np.roll(Qy, -1, axis=1), Px, Py, True))
+    area = (_inside_contribution(Px, Py, np.roll(Px, -1, axis=0), np.roll(Py, -1, axis=0), Qx, Qy, False)
+            + _inside_contribution(Qx, Qy, np.roll(Qx, -1, axis=0), np.roll(Qy, -1, axis=0), Pxb, Pyb, True))
     return np.where(signed != 0, np.maximum(area, 0.0), 0.0)
 
 
