@@ -4,8 +4,12 @@ CIE 15:2004 §9.5 (and CIE e-ILV 17-23-068): the CCT of a stimulus is the temper
 the Planckian radiator whose chromaticity is nearest to it in the CIE 1960 UCS diagram
 (u, v) = (u', 2/3 v'); Duv (ANSI C78.377; Ohno 2014, LEUKOS 10(1):47-55) is that distance,
 positive above the locus (larger v). The CIE definition is stated for the CIE 1931
-observer; ``observer="cie1964-10"`` computes the same construction entirely in the 10°
-observer (10° chromaticity against the 10° Planckian locus), which is not the CIE CCT.
+observer (CIE S 017:2011 term 17-258: "(CIE 1931 standard observer based) u', 2/3 v'";
+wording recalled from memory, not confirmed against the text). ``observer="cie1964-10"``
+computes the same construction entirely in the 10° observer (10° chromaticity against
+the 10° Planckian locus): the 10° counterpart, not the CIE-defined CCT. A 10°
+chromaticity cannot be turned into a 2° one without its spectrum, so a 10° spec gets its
+CCT and Duv this way, consistently with its tolerances and targets.
 
 Method: the locus is tabulated from Planck's law every 0.5 mired from 0.5 to 2010 mired
 (2·10⁶ K to 497.5 K), each node with its exact chromaticity and exact derivative
