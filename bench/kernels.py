@@ -139,7 +139,8 @@ def bench_cct(quick=False) -> list[dict]:
         note += (f"; colour-science Ohno 2013 timed on {n_ref} points ({t_ref / n_ref * 1e6:.0f} µs/point) "
                  f"and scaled to {n}; vs it max |ΔT| {dT_ref:.3f} K, |ΔDuv| {dD_ref:.1e}")
         met = ref_s / ours_s >= CCT_SPEEDUP and dT <= CCT_TOL_K and dD <= DUV_TOL
-        target = f">= {CCT_SPEEDUP:.0f}x colour-science Ohno 2013; |ΔT| <= {CCT_TOL_K} K, |ΔDuv| <= {DUV_TOL:g} vs exact"
+        target = (f">= {CCT_SPEEDUP:.0f}x colour-science Ohno 2013; |ΔT| <= {CCT_TOL_K} K, "
+                  f"|ΔDuv| <= {DUV_TOL:g} vs exact")
     else:
         met = ours_s / n * 1e6 <= CCT_FALLBACK_US and dT <= CCT_TOL_K and dD <= DUV_TOL
         target = f"<= {CCT_FALLBACK_US} µs/point; |ΔT| <= {CCT_TOL_K} K, |ΔDuv| <= {DUV_TOL:g} vs exact"
@@ -226,14 +227,14 @@ COVERAGE_TOL = 1e-9           # percentage points
 
 def _area(poly):
     # shoelace formula
-    return 0.5 * sum(x0 * y1 - x1 * y0 for (x0, y0), (x1, y1) in zip(poly, poly[1:] + poly[:1]))
+    return 0.5 * sum(x0 * y1 - x1 * y0 for (x0, y0), (x1, y1) in zip(poly, poly[1:] + poly[:1], strict=True))
 
 
 def _clip_polygon(subject, clip):
     """Sutherland & Hodgman (CACM 17(1), 1974): ``subject`` clipped by the convex,
     counter-clockwise polygon ``clip``; plain Python, one polygon at a time."""
     out = list(subject)
-    for (ax, ay), (bx, by) in zip(clip, clip[1:] + clip[:1]):
+    for (ax, ay), (bx, by) in zip(clip, clip[1:] + clip[:1], strict=True):
         inp, out = out, []
         if not inp:
             break
@@ -308,11 +309,12 @@ def print_table(rows) -> None:
                        _fmt(r["ratio"]), _fmt(r["max_diff"], 2), _fmt(r["met"])) for r in rows]
     widths = [max(len(line[i]) for line in lines) for i in range(len(head))]
     for k, line in enumerate(lines):
-        print("  ".join(c.ljust(w) if i == 0 else c.rjust(w) for i, (c, w) in enumerate(zip(line, widths))))
+        print("  ".join(c.ljust(w) if i == 0 else c.rjust(w) for i, (c, w) in enumerate(zip(line, widths, strict=True))))
         if k == 0:
             print("  ".join("-" * w for w in widths))
     for r in rows:
-        print(f"- {r['name']}: target {r['target']}; reference: {r['reference']}" + (f"; {r['note']}" if r["note"] else ""))
+        note = f"; {r['note']}" if r["note"] else ""
+        print(f"- {r['name']}: target {r['target']}; reference: {r['reference']}{note}")
 
 
 def main(argv=None) -> int:

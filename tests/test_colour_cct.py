@@ -243,8 +243,9 @@ def test_uv_from_cct_duv_with_non_physical_temperature_gives_nan():
     assert np.all(np.isnan(uv[:4])) and np.all(np.isfinite(uv[4]))
 
 
-def _dense_points(observer="cie1931-2", n_T=240, duv=np.linspace(-0.05, 0.05, 21)):
+def _dense_points(observer="cie1931-2", n_T=240, duv=None):
     """Points at known Duv off the exact locus of ``observer`` (Planck's law, exact normal)."""
+    duv = np.linspace(-0.05, 0.05, 21) if duv is None else duv
     T = np.geomspace(1000.0, 25000.0, n_T)
     q, dq = planck_uv_tangent(T, observer)
     n = np.stack([dq[:, 1], -dq[:, 0]], axis=-1)

@@ -293,7 +293,7 @@ def unit_entries(cols, table, codes) -> list[dict]:
     fail = np.stack([c.code == 2 for c in cols], axis=1) if cols else np.zeros((n, 0), bool)
     ids = [c.id for c in cols]
     failing = [[] for _ in range(n)]
-    for i, j in zip(*np.nonzero(fail)):        # row-major: each unit's ids in column order
+    for i, j in zip(*np.nonzero(fail), strict=True):        # row-major: each unit's ids in column order
         failing[i].append(ids[j])
     return [{"serial": s, "lot": lot, "supplier": sup, "verdict": CODES[k], "rows": nr, "failing": f,
              "source": src}
