@@ -135,7 +135,7 @@ def spectrum_figures(sd, observer) -> dict:
         XYZ_out = XYZ * (luminance(XYZ) / XYZ[1])   # absolute: Y in cd/m²
     else:
         XYZ_out = XYZ / XYZ[1] * 100.0              # relative: Y = 100
-    f = white_figures([XYZ[:2] / XYZ.sum()])[0]
+    f = white_figures([XYZ[:2] / XYZ.sum()], observer)[0]
     out = {"label": sd.label, "sample": sd.sample, "source": sd.source, "sampling": sd.sampling,
            "interpolation": sd.interpolation, "scale": sd.scale,
            "X": float(XYZ_out[0]), "Y": float(XYZ_out[1]), "Z": float(XYZ_out[2]),
@@ -149,11 +149,12 @@ def spectrum_figures(sd, observer) -> dict:
     return out
 
 
-def white_figures(xy) -> dict:
-    """x, y, u', v', CCT and Duv for chromaticities of shape (n, 2) -> list of dicts."""
+def white_figures(xy, observer: str = "cie1931-2") -> list[dict]:
+    """x, y, u', v', CCT and Duv for chromaticities of shape (n, 2) -> list of dicts; CCT and
+    Duv against the Planckian locus of the same observer as the chromaticities."""
     xy = np.asarray(xy, dtype=float).reshape(-1, 2)
     uv = xy_to_uv_prime(xy)
-    cct, duv = cct_duv_from_xy(xy)
+    cct, duv = cct_duv_from_xy(xy, observer)
     return [{"x": float(a[0]), "y": float(a[1]), "u_prime": float(b[0]), "v_prime": float(b[1]),
              "cct_K": _num(c), "duv": _num(d)} for a, b, c, d in zip(xy, uv, cct, duv, strict=True)]
 
@@ -188,7 +189,7 @@ def derive(spec: Spec) -> Derived:
     ref_hulls = reference_hulls(spec)
     keys = sorted(set(CONTRACT_REFERENCES) | {g.reference for g in spec.gamut} | set(spec.references))
     white_xy = spec.white.xy if spec.white else None
-    white = white_figures([white_xy])[0] if white_xy else None
+    white = white_figures([white_xy], spec.observer)[0] if white_xy else None
 
     prims: dict[str, dict] = {}
     if spec.primaries:

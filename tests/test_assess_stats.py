@@ -60,3 +60,63 @@ def test_lot_statistics_per_column_with_worst_units_and_box_axes():
     assert sx["id"] == "white.box.dx" and sx["limit"] == {"min": -0.0025, "max": 0.0025}
     assert sx["out_of_tolerance_percent"] == pytest.approx(20.0)
     assert sy["sd"] == 0.0 and sy["cpk"] is None
+
+
+def test_smallest_is_the_head_of_a_stable_argsort_with_ties_and_nan():
+    from generator.assess.stats import _smallest
+
+    rng = np.random.default_rng(4)
+    for n in (1, 5, 12, 13, 200, 5000):
+        v = rng.integers(0, 6, n).astype(float)      # many ties
+        v[rng.random(n) < 0.2] = np.nan
+        for k in (1, 3):
+            assert _smallest(v, k).tolist() == np.argsort(v, kind="stable")[:k].tolist(), (n, k)
+    v = np.full(100, np.nan)
+    v[[7, 90]] = 1.0                                 # fewer finite values than k: NaN fill the rest
+    assert _smallest(v, 3).tolist() == [7, 90, 0]
+
+
+def _summary_reference(cols, table, codes):
+    """The lots and suppliers written out unit by unit (the former implementation)."""
+    lots, sups = [], []
+    for lot in sorted({x for x in table.lot if x}):
+        members = [i for i, x in enumerate(table.lot) if x == lot]
+        k = codes[members]
+        lots.append({"lot": lot, "n": len(members), "n_fail": int(np.sum(k == 2)),
+                     "suppliers": sorted({table.supplier[i] for i in members if table.supplier[i]}),
+                     "verdict": ("pass", "indeterminate", "fail")[int(k.max())], "n_pass": int(np.sum(k == 0)),
+                     "n_indeterminate": int(np.sum(k == 1)), "fail_percent": 100.0 * float(np.mean(k == 2)),
+                     "statistics": lot_statistics(cols, table, np.array(members))})
+    for sup in sorted({x for x in table.supplier if x}):
+        members = [i for i, x in enumerate(table.supplier) if x == sup]
+        k = codes[members]
+        sups.append({"supplier": sup, "n": len(members), "n_fail": int(np.sum(k == 2)),
+                     "n_indeterminate": int(np.sum(k == 1)), "n_pass": int(np.sum(k == 0)),
+                     "lots": sorted({table.lot[i] for i in members if table.lot[i]}),
+                     "verdict": ("pass", "indeterminate", "fail")[int(k.max())]})
+    return lots, sups
+
+
+def test_grouped_lots_and_suppliers_equal_the_unit_by_unit_reference():
+    from generator.assess.requirements import summarise, unit_entries
+
+    rng = np.random.default_rng(9)
+    n = 3000
+    lot = [rng.choice(["L-b", "L-a", "", "L-c10", "L-c2"]) for _ in range(n)]
+    sup = [rng.choice(["Umbrin", "", "Tessaly", "Arvo"]) for _ in range(n)]
+    table = UnitTable([f"S{i:05d}" for i in range(n)], lot, sup, ["f:1"] * n, {})
+    value = rng.normal(0.003, 0.001, n)
+    code = np.where(value > 0.005, 2, np.where(value > 0.0045, 1, 0)).astype(np.int8)
+    code[rng.random(n) < 0.05] = -1
+    cols = [Column("white.delta_uv", "white", "delta_uv", "Δu'v'", {"max": 0.005}, value, code, 0.005 - value,
+                   hi=0.005, stat_form="upper"),
+            Column("red.delta_uv", "red", "delta_uv", "Δu'v'", {"max": 0.004}, value * 1.1,
+                   np.where(value * 1.1 > 0.004, 2, 0).astype(np.int8), 0.004 - value * 1.1, hi=0.004)]
+    codes = np.maximum(np.max(np.stack([c.code for c in cols]), axis=0), 0).astype(np.int8)
+    assert summarise(cols, table, codes) == _summary_reference(cols, table, codes)
+    units = unit_entries(cols, table, codes)
+    for i in (0, 17, 2999):
+        failing = [c.id for c in cols if c.code[i] == 2]
+        assert units[i] == {"serial": f"S{i:05d}", "lot": lot[i], "supplier": sup[i],
+                            "verdict": ("pass", "indeterminate", "fail")[codes[i]],
+                            "rows": sum(int(c.code[i] >= 0) for c in cols), "failing": failing, "source": "f:1"}

@@ -1,6 +1,8 @@
 """CIELAB, ΔE*ab and CIEDE2000 in generator/colour/difference.py."""
 from __future__ import annotations
 
+import itertools
+
 import colour
 import numpy as np
 import pytest
@@ -189,3 +191,12 @@ def test_XYZ_to_Lab_nan_and_zero_white_give_nan():
         warnings.simplefilter("error")
         assert np.isnan(de.XYZ_to_Lab((np.nan, 0.3, 0.3), D65_XYZ)[1])  # a* needs X; L* and b* do not
         assert np.all(np.isnan(de.XYZ_to_Lab((0.2, 0.3, 0.3), (0.0, 0.0, 0.0))))
+
+
+def test_delta_e_2000_on_hue_branch_edges_agrees_with_colour_science():
+    # hues exactly 0°, 90°, 180°, 270° apart and zero chroma: the branches of Sharma eq. 10 and 14
+    axis = [(50.0, 0.0, 0.0), (50.0, 10.0, 0.0), (50.0, -10.0, 0.0), (50.0, 0.0, 10.0), (50.0, 0.0, -10.0),
+            (60.0, 3.0, -3.0), (40.0, -3.0, 3.0), (50.0, 1e-9, 0.0), (50.0, -1e-9, -0.0)]
+    lab1, lab2 = (np.array(p) for p in zip(*itertools.product(axis, axis), strict=True))
+    ref = colour.delta_E(lab1, lab2, method="CIE 2000")     # [L] the same formulas in degrees
+    np.testing.assert_allclose(de.delta_e_2000(lab1, lab2), ref, rtol=0, atol=LIBRARY_TOL)

@@ -113,3 +113,28 @@ def test_resampling_refuses_too_few_or_unsorted_samples():
         sp.resample_to_1nm([400, 410], [1, 2])
     with pytest.raises(ValueError, match="three or more strictly increasing"):
         sp.resample_to_1nm([400, 420, 410], [1, 2, 3])
+
+
+@pytest.mark.parametrize(("start", "stop"), [(360, 830), (380, 780), (300, 900), (800, 900), (200, 300)])
+def test_one_matrix_product_with_cached_weights_equals_the_sum_on_the_cmf_grid(start, stop):
+    # CIE 15:2004 eq. 7.1 at 1 nm, the spectrum counting as zero outside its range
+    wl = np.arange(float(start), stop + 1.0)
+    rng = np.random.default_rng(2)
+    v = rng.random((50, wl.size))
+    grid = np.arange(360.0, 831.0)
+    _, cmf = sp.cmfs("cie1964-10")
+    padded = np.zeros((50, grid.size))
+    inside = (grid >= start) & (grid <= stop)
+    padded[:, inside] = v[:, (grid[inside] - start).astype(int)]
+    np.testing.assert_allclose(sp.spectrum_XYZ(wl, v, "cie1964-10"), padded @ cmf, rtol=1e-13, atol=1e-13)
+    # a batch gives each spectrum's own sum
+    np.testing.assert_allclose(sp.spectrum_XYZ(wl, v[7], "cie1964-10"), (padded @ cmf)[7], rtol=1e-13, atol=1e-13)
+
+
+def test_integration_weights_are_cached_per_grid_and_observer_and_read_only():
+    w = sp.integration_weights(380, 401, "cie1931-2")
+    assert w is sp.integration_weights(380, 401, "cie1931-2")
+    assert w is not sp.integration_weights(380, 401, "cie1964-10")
+    assert w.shape == (401, 3) and not w.flags.writeable
+    # ȳ at 555 nm is 1 (CIE 1931 2° table, CIE 018:2019 Table 6)
+    assert w[555 - 380, 1] == 1.0

@@ -28,7 +28,8 @@ def _spec(spec_dir, text):
 def test_a_ten_degree_spec_states_its_observer_and_the_cct_observer(spec_dir):
     names = dict(methods(_spec(spec_dir, TEN_DEGREE).spec))
     assert names["Observer"].startswith("CIE 1964 10° standard observer")
-    assert "CCT / Duv are computed with the CIE 1931 2° observer" in names["Observer and CCT"]
+    assert "and so do CCT / Duv" in names["Observer and CCT"]
+    assert "not the CIE-defined CCT" in names["Observer and CCT"]
     assert "MacAdam (1942)" in names["MacAdam steps"]
     assert "CIEDE2000 per CIE 142-2001" in names["Colour differences"]
 

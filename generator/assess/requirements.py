@@ -31,12 +31,18 @@ class Assessment:
     design_rows: list[dict]
     verdict: str
     rule: DecisionRule
-    units: list[dict] = field(default_factory=list)   # serial, lot, supplier, verdict, failing
     lots: list[dict] = field(default_factory=list)
     columns: list = field(default_factory=list)        # units.Column per requirement on units
     table: object = None                               # model.UnitTable
     unit_codes: object = None                          # np.ndarray of verdict codes per unit
     suppliers: list[dict] = field(default_factory=list)
+
+    @cached_property
+    def units(self) -> list[dict]:
+        """Per unit: serial, lot, supplier, verdict, rows, failing, source (built on first use)."""
+        if self.table is None or not len(self.table):
+            return []
+        return unit_entries(self.columns, self.table, self.unit_codes)
 
     @cached_property
     def rows(self) -> list[dict]:
@@ -216,10 +222,10 @@ def assess(spec: Spec, derived: Derived, rule: DecisionRule | None = None) -> As
         cols += row_columns(spec, derived, table, rule)
     n = len(table) if table is not None else 0
     codes = unit_verdicts(cols, n)
-    units, lots, suppliers = summarise(cols, table, codes) if n else ([], [], [])
+    lots, suppliers = summarise(cols, table, codes) if n else ([], [])
     verdicts = [r["verdict"] for r in rows] + [CODES[k] for k in np.unique(codes)]
     verdict = combine(verdicts) if verdicts else "pass"
-    return Assessment(rows, verdict, rule, units, lots, cols, table, codes, suppliers)
+    return Assessment(rows, verdict, rule, lots, cols, table, codes, suppliers)
 
 
 def _with_lamp_columns(spec: Spec, table, cols, rule):
@@ -297,37 +303,59 @@ def row_columns(spec: Spec, derived: Derived, table, rule) -> list:
         cols.append(Column(rid, first["subject"], first["quantity"], first["label"], first["limit"], value,
                            code, marg, rule.U(first["quantity"]), lo=lo, hi=hi, stat_form=form, rows=rs))
     return cols
-def summarise(cols, table, codes):
-    """Unit entries, lots with statistics, and suppliers, from the columns."""
-    failing = [[] for _ in range(len(table))]
-    n_rows = np.zeros(len(table), int)
+def unit_entries(cols, table, codes) -> list[dict]:
+    """One entry per unit: serial, lot, supplier, verdict, number of rows, failing row ids, source."""
+    n = len(table)
+    n_rows = np.zeros(n, int)
     for c in cols:
         n_rows += c.code >= 0
-        for i in np.flatnonzero(c.code == 2):
-            failing[i].append(c.id)
-    units = [{"serial": s, "lot": lot, "supplier": sup, "verdict": CODES[k], "rows": int(nr), "failing": f,
-              "source": src}
-             for s, lot, sup, k, nr, f, src in zip(table.serial, table.lot, table.supplier, codes.tolist(),
-                                                    n_rows.tolist(), failing, table.source)]
-    lot_arr = np.array(table.lot, dtype=object)
-    sup_arr = np.array(table.supplier, dtype=object)
+    fail = np.stack([c.code == 2 for c in cols], axis=1) if cols else np.zeros((n, 0), bool)
+    ids = [c.id for c in cols]
+    failing = [[] for _ in range(n)]
+    for i, j in zip(*np.nonzero(fail), strict=True):        # row-major: each unit's ids in column order
+        failing[i].append(ids[j])
+    return [{"serial": s, "lot": lot, "supplier": sup, "verdict": CODES[k], "rows": nr, "failing": f,
+             "source": src}
+            for s, lot, sup, k, nr, f, src in zip(table.serial, table.lot, table.supplier, codes.tolist(),
+                                                   n_rows.tolist(), failing, table.source)]
+
+
+def _groups(names):
+    """(sorted distinct non-empty names, index of each unit's name in them or -1)."""
+    arr = np.array(names, dtype=str) if len(names) else np.zeros(0, str)
+    keys, inverse = np.unique(arr, return_inverse=True)
+    keep = keys != ""
+    remap = np.where(keep, np.cumsum(keep) - 1, -1)
+    return [str(k) for k in keys[keep]], remap[inverse.reshape(-1)]
+
+
+def summarise(cols, table, codes):
+    """Lots with statistics and suppliers, from the columns (units are grouped by sorting,
+    not visited one by one)."""
+    lot_names, lot_of = _groups(table.lot)
+    sup_names, sup_of = _groups(table.supplier)
+    order = np.argsort(lot_of, kind="stable")
+    bounds = np.searchsorted(lot_of[order], np.arange(len(lot_names) + 1))
+    n_lots = len(lot_names)
+    # supplier sets per lot and lot sets per supplier, from the distinct (lot, supplier) pairs
+    both = (lot_of >= 0) & (sup_of >= 0)
+    seen = np.bincount(lot_of[both] * len(sup_names) + sup_of[both], minlength=n_lots * len(sup_names)) > 0
+    pairs = np.stack(np.divmod(np.flatnonzero(seen), max(len(sup_names), 1)), axis=1)   # (lot, supplier)
     lots = []
-    for lot in sorted({x for x in table.lot if x}):
-        members = np.flatnonzero(lot_arr == lot)
+    for g in range(n_lots):
+        members = order[bounds[g]:bounds[g + 1]]          # ascending unit indices (stable sort)
         k = codes[members]
-        lots.append({"lot": lot, "n": int(members.size), "n_fail": int(np.sum(k == 2)),
-                     "suppliers": sorted({sup_arr[i] for i in members if sup_arr[i]}),
+        lots.append({"lot": lot_names[g], "n": int(members.size), "n_fail": int(np.sum(k == 2)),
+                     "suppliers": [sup_names[j] for j in pairs[pairs[:, 0] == g, 1]],
                      "verdict": CODES[int(k.max())], "n_pass": int(np.sum(k == 0)),
                      "n_indeterminate": int(np.sum(k == 1)),
                      "fail_percent": 100.0 * float(np.mean(k == 2)),
                      "statistics": lot_statistics(cols, table, members)})
     suppliers = []
-    for sup in sorted({x for x in table.supplier if x}):
-        members = np.flatnonzero(sup_arr == sup)
-        k = codes[members]
-        suppliers.append({"supplier": sup, "n": int(members.size), "n_fail": int(np.sum(k == 2)),
+    for g, sup in enumerate(sup_names):
+        k = codes[sup_of == g]
+        suppliers.append({"supplier": sup, "n": int(k.size), "n_fail": int(np.sum(k == 2)),
                           "n_indeterminate": int(np.sum(k == 1)), "n_pass": int(np.sum(k == 0)),
-                          "lots": sorted({table.lot[i] for i in members if table.lot[i]}),
+                          "lots": [lot_names[j] for j in pairs[pairs[:, 1] == g, 0]],
                           "verdict": CODES[int(k.max())]})
-    return units, lots, suppliers
-
+    return lots, suppliers

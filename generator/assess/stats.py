@@ -51,6 +51,19 @@ def _series(c):
     return [("", c.value, c.lo, c.hi, c.stat_form)]
 
 
+def _smallest(values: np.ndarray, k: int) -> np.ndarray:
+    """Positions of the k smallest values, as the first k of a stable argsort (NaN last),
+    without sorting them all: a partition finds the k-th value, then only the values up to
+    it are sorted."""
+    if values.size <= 4 * k:
+        return np.argsort(values, kind="stable")[:k]
+    kth = np.partition(values, k - 1)[k - 1]
+    if not np.isfinite(kth):
+        return np.argsort(values, kind="stable")[:k]
+    cand = np.flatnonzero(values <= kth)                 # ascending positions, ties included
+    return cand[np.argsort(values[cand], kind="stable")][:k]
+
+
 def lot_statistics(cols, table, members: np.ndarray) -> list[dict]:
     """Statistics of every column over the units at indices ``members``."""
     out = []
@@ -59,7 +72,7 @@ def lot_statistics(cols, table, members: np.ndarray) -> list[dict]:
         idx = members[c.code[members] >= 0]
         if idx.size == 0:
             continue
-        order = idx[np.argsort(c.margin[idx], kind="stable")][:WORST]
+        order = idx[_smallest(c.margin[idx], WORST)]
         worst = [{"serial": serial[i], "margin": float(c.margin[i]) if np.isfinite(c.margin[i]) else None,
                   "verdict": ("pass", "indeterminate", "fail")[c.code[i]]} for i in order]
         for suffix, values, lo, hi, form in _series(c):

@@ -194,8 +194,10 @@ def unit_columns(spec: Spec, table: UnitTable, ref_hulls, rule: DecisionRule) ->
     if spec.white is not None:
         W = table.channels["white"]
         mw = np.isfinite(W[:, 0])
-        cct, duv = cct_duv_from_xy(np.where(mw[:, None], W[:, :2], np.array(spec.white.xy))) if len(W) else \
-            (np.zeros(0), np.zeros(0))
+        if len(W):
+            cct, duv = cct_duv_from_xy(np.where(mw[:, None], W[:, :2], np.array(spec.white.xy)), spec.observer)
+        else:
+            cct, duv = np.zeros(0), np.zeros(0)
         cols += tolerance_columns("white", "white", spec.white.tolerance, spec.white.xy, W[:, :2], mw, rule,
                                   white=(cct, duv))
         lum = spec.white.luminance

@@ -11,6 +11,7 @@ luminance, and the shape figures (peak, centroid, FWHM).
 from __future__ import annotations
 
 from dataclasses import dataclass
+from functools import lru_cache
 
 import numpy as np
 
@@ -60,11 +61,29 @@ def on_cmf_grid(wavelengths_1nm, values, observer: str = "cie1931-2"):
     return out
 
 
+@lru_cache(maxsize=64)
+def integration_weights(start_nm: int, n: int, observer: str = "cie1931-2") -> np.ndarray:
+    """Weights (n, 3) that integrate a spectrum sampled at start_nm, start_nm + 1, ... (n
+    values, 1 nm apart) in one matrix product: x̄, ȳ, z̄ · Δλ (Δλ = 1 nm) at each of its
+    wavelengths, zero where the CMF table (360-830 nm) has no value. Cached per grid and
+    observer; read-only."""
+    grid, cmf = cmfs(observer)
+    w = np.zeros((n, 3))
+    lo = max(int(grid[0]), start_nm)
+    hi = min(int(grid[-1]), start_nm + n - 1)
+    if hi >= lo:
+        w[lo - start_nm:hi - start_nm + 1] = cmf[lo - int(grid[0]):hi - int(grid[0]) + 1]
+    w.setflags(write=False)
+    return w
+
+
 def spectrum_XYZ(wavelengths_1nm, values, observer: str = "cie1931-2"):
-    """Tristimulus sums Σ S x̄ Δλ, Σ S ȳ Δλ, Σ S z̄ Δλ at Δλ = 1 nm (CIE 15:2004 eq. 7.1, k = 1)."""
-    _, cmf = cmfs(observer)
-    # CIE 15:2004 eq. 7.1: X = k Σ S(λ) x̄(λ) Δλ, likewise Y and Z
-    return on_cmf_grid(wavelengths_1nm, values, observer) @ cmf
+    """Tristimulus sums Σ S x̄ Δλ, Σ S ȳ Δλ, Σ S z̄ Δλ at Δλ = 1 nm (CIE 15:2004 eq. 7.1, k = 1),
+    for spectra (..., n) at whole nanometres ``wavelengths_1nm``; zero outside 360-830 nm."""
+    wl = np.asarray(wavelengths_1nm, dtype=float)
+    values = np.asarray(values, dtype=float)
+    # CIE 15:2004 eq. 7.1: X = k Σ S(λ) x̄(λ) Δλ, likewise Y and Z, as one product with cached weights
+    return values @ integration_weights(int(round(wl[0])), len(wl), observer)
 
 
 def luminance(XYZ_sum):

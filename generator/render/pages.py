@@ -142,8 +142,12 @@ def methods(spec) -> list[tuple[str, str]]:
         ]
     if spec.observer != "cie1931-2":
         extra.append(("Observer and CCT", "chromaticities, the spectral locus, dominant wavelengths and spectra "
-                                          "follow the spec's observer; the Planckian locus, isotherms and "
-                                          "CCT / Duv are computed with the CIE 1931 2° observer"))
+                                          "follow the spec's observer, and so do CCT / Duv: the nearest point "
+                                          "of the Planckian locus integrated with the same observer, in the "
+                                          "CIE 1960 uv diagram of that observer. CIE 15:2004 §9.5 states CCT "
+                                          "for the CIE 1931 2° observer; a 10° chromaticity has no 2° "
+                                          "equivalent without its spectrum, so these are the 10° counterparts "
+                                          "of CCT and Duv, not the CIE-defined CCT"))
     tols = [spec.white.tolerance] if spec.white else []
     tols += [p.tolerance for p in spec.primaries] + [c.tolerance for c in spec.colours]
     if any(t.macadam_steps is not None for t in tols):

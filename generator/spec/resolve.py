@@ -254,7 +254,7 @@ class _Resolver:
         elif form == "uv":
             xy = tuple(float(c) for c in uv_prime_to_xy([v["u_prime"], v["v_prime"]]))
         elif form == "cct":
-            xy = tuple(float(c) for c in xy_from_cct_duv(v["cct"], v.get("duv", 0.0)))
+            xy = tuple(float(c) for c in xy_from_cct_duv(v["cct"], v.get("duv", 0.0), self.observer))
         else:  # XYZ
             xy = tuple(float(c) for c in XYZ_to_xy([v["X"], v["Y"], v["Z"]]))
         if not np.all(np.isfinite(xy)):
