@@ -26,7 +26,7 @@ class Evaluated:
 class Summary:
     evaluated: list[Evaluated]
     warnings: list
-    results: dict
+    _results: dict | None
     pages: int = 0
     figures: int = 0
     seconds: float = 0.0
@@ -37,6 +37,13 @@ class Summary:
     def __post_init__(self):
         if self.stages is None:
             self.stages = {}
+
+    @property
+    def results(self) -> dict:
+        """results.json as a dict (built on first use: for 100,000 units it is large)."""
+        if self._results is None:
+            self._results = results_of(self.evaluated)
+        return self._results
 
     @property
     def failing(self) -> list[str]:
@@ -127,7 +134,9 @@ def build(specs_path: Path, out: Path, *, clean: bool = False, incremental: bool
         memo = EvaluationMemo(cdir / "evaluated", specs_path, skip=(out,))
     evaluated, warnings = evaluate(specs_path, memo, stages, jobs)
     t1 = time.perf_counter()
-    results = results_of(evaluated)
+    from .render.results import results_document
+
+    results = results_document([], [e.assessment.verdict for e in evaluated])   # entries: encoded per spec
     histories = None
     if history:
         from .history import spec_histories
@@ -144,7 +153,7 @@ def build(specs_path: Path, out: Path, *, clean: bool = False, incremental: bool
     if memo is not None:
         memo.prune()
     stages["publish"] = time.perf_counter() - t2
-    summary = Summary(evaluated, warnings, results, n_pages, n_figures, time.perf_counter() - t0, stages=stages)
+    summary = Summary(evaluated, warnings, None, n_pages, n_figures, time.perf_counter() - t0, stages=stages)
     summary.reused = cache.hits if cache is not None else 0
     summary.recalled = memo.hits if memo is not None else 0
     return summary

@@ -14,7 +14,7 @@ from .contexts import IndexContext, SpecContext
 from .lots import _units_view, lot_pages, page_names
 from .pages import (CAUTION, CAUTION_CATEGORIES, decision_text, environment, fmt, methods, render_markdown,
                     row_view, templates_dir)
-from .results import dumps_entry, dumps_from_entries
+from .results import dumps_entry, dumps_from_entries, spec_result
 from .swatch import swatch_hex
 
 SYMBOLS = {"pass": "✓", "fail": "✗", "indeterminate": "?"}
@@ -222,8 +222,8 @@ def spec_files(e, env, history=None, site_url: str | None = None, reload: bool =
     files["index.html"] = env.get_template("spec.html").render(**ctx).encode("utf-8")
     for path, content in lot_pages(e, env, decision_text(e.spec), site_url, reload):
         files[path] = content.encode("utf-8") if isinstance(content, str) else content
-    if entry is not None:
-        files["results.json"] = dumps_entry(entry).encode("utf-8")
+    entry = entry if entry is not None else spec_result(e.spec, e.derived, e.assessment)
+    files["results.json"] = dumps_entry(entry).encode("utf-8")
     return files
 
 
@@ -253,7 +253,7 @@ def render_site(evaluated, results: dict, cache=None, histories=None, *, site_ur
     site = SiteFiles()
     n_fig = 0
     by_id = {e.spec.id: e.spec for e in evaluated}
-    entries = {s["id"]: s for s in results["specs"]}
+    entries = {s["id"]: s for s in results.get("specs", [])}   # else each is made where it is drawn
     history_of = {e.spec.id: histories.get(e.spec.file, []) if histories is not None else None for e in evaluated}
     keys, files_of = {}, {}
     for e in evaluated:
@@ -266,7 +266,7 @@ def render_site(evaluated, results: dict, cache=None, histories=None, *, site_ur
 
     def draw(i: int) -> dict[str, bytes]:
         e = todo[i]
-        return spec_files(e, env, history_of[e.spec.id], site_url, reload, entries[e.spec.id])
+        return spec_files(e, env, history_of[e.spec.id], site_url, reload, entries.get(e.spec.id))
 
     for e, files in zip(todo, map_indexed(draw, len(todo), jobs), strict=True):
         files_of[e.spec.id] = files
@@ -282,7 +282,7 @@ def render_site(evaluated, results: dict, cache=None, histories=None, *, site_ur
     ictx = index_context(evaluated, site_url)
     ictx["reload"] = reload
     site.add("index.html", env.get_template("index.html").render(**ictx))
-    site.add("results.json", dumps_from_entries(results, [entry_texts[s["id"]] for s in results["specs"]]))
+    site.add("results.json", dumps_from_entries(results, [entry_texts[e.spec.id] for e in evaluated]))
     static = templates_dir() / "static"
     for p in sorted(static.rglob("*")):
         if p.is_file():

@@ -1,0 +1,49 @@
+"""results.json text: indented, each requirement row and unit entry on one line, the same
+document whether written whole (check --json) or from per-spec entries (build)."""
+from __future__ import annotations
+
+import json
+
+from generator.render.results import dumps, dumps_entry, dumps_from_entries, results_document
+
+ENTRY = {"id": "a", "verdict": "pass", "title": "A \"quoted\" title\nwith a break",
+         "requirements": [{"id": "white.cct", "value": 6504.5, "limit": {"min": 6000.0}, "sample": None},
+                          {"id": "white.box", "value": {"dx": 0.001, "dy": -0.002}, "sample": "S-1"}],
+         "units": [{"serial": "S-1", "failing": ["white.box"]}], "lots": [{"lot": "L1", "n": 1}],
+         "warnings": []}
+
+
+def test_rows_and_units_are_one_line_each_and_the_text_parses_back():
+    text = dumps_entry(ENTRY)
+    assert json.loads(text) == ENTRY
+    lines = text.splitlines()
+    assert '    {"id": "white.cct", "value": 6504.5, "limit": {"min": 6000.0}, "sample": null},' in lines
+    assert '    {"serial": "S-1", "failing": ["white.box"]}' in lines
+    assert '  "lots": [' in lines          # other lists stay indented as usual
+    assert '      "lot": "L1",' in lines
+
+
+def test_the_whole_document_equals_the_one_made_from_encoded_entries():
+    other = dict(ENTRY, id="b", verdict="fail", requirements=[], units=[])
+    doc = results_document([ENTRY, other])
+    whole = dumps(doc)
+    assert json.loads(whole) == doc
+    assert whole == dumps_from_entries(results_document([], ["pass", "fail"]) | {"summary": doc["summary"]},
+                                       [dumps_entry(ENTRY), dumps_entry(other)])
+
+
+def test_a_value_that_spells_the_placeholder_falls_back_to_plain_indentation():
+    tricky = dict(ENTRY, title="\x00requirements\x00")
+    text = dumps_entry(tricky)
+    assert json.loads(text) == tricky
+
+
+def test_check_json_equals_the_built_sites_results(tmp_path, monkeypatch):
+    from generator.build import build, check
+
+    from .conftest import copy_demo
+
+    monkeypatch.chdir(tmp_path)
+    specs = copy_demo(tmp_path)
+    build(specs, tmp_path / "site")
+    assert dumps(check(specs).results) == (tmp_path / "site" / "results.json").read_text(encoding="utf-8")
