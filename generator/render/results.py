@@ -70,11 +70,17 @@ def dumps_entry(entry: dict) -> str:
     return text
 
 
-def dumps_from_entries(doc: dict, entry_texts: list[str]) -> str:
+def dumps_from_entries(doc: dict, entry_texts: list) -> str | bytes:
     """``dumps(doc)`` for a document whose "specs" entries are already encoded by
-    ``dumps_entry`` (so an incremental build encodes only the specs that changed)."""
+    ``dumps_entry`` (so an incremental build encodes only the specs that changed); the
+    entries as str give str, as UTF-8 bytes give bytes (no decoding of large entries)."""
     head = json.dumps({**doc, "specs": []}, indent=2, ensure_ascii=False, allow_nan=False) + "\n"
+    as_bytes = bool(entry_texts) and isinstance(entry_texts[0], bytes)
+    if as_bytes:
+        head = head.encode("utf-8")
     if not entry_texts:
         return head
-    body = ",\n".join("    " + t.rstrip("\n").replace("\n", "\n    ") for t in entry_texts)
-    return head[: -len("[]\n}\n")] + "[\n" + body + "\n  ]\n}\n"
+    nl, pad = ("\n", "    ") if not as_bytes else (b"\n", b"    ")
+    body = (b",\n" if as_bytes else ",\n").join(pad + t.rstrip(nl).replace(nl, nl + pad) for t in entry_texts)
+    tail = ("[\n", "\n  ]\n}\n") if not as_bytes else (b"[\n", b"\n  ]\n}\n")
+    return head[: -len("[]\n}\n")] + tail[0] + body + tail[1]

@@ -278,7 +278,7 @@ def render_site(evaluated, results: dict, cache=None, histories=None, *, site_ur
         n_fig += sum(name.endswith(".svg") for name in files)
         for name in sorted(files):
             site.add(f"{e.spec.id}/{name}", files[name])
-        entry_texts[e.spec.id] = files["results.json"].decode("utf-8")
+        entry_texts[e.spec.id] = files["results.json"]
     ictx = index_context(evaluated, site_url)
     ictx["reload"] = reload
     site.add("index.html", env.get_template("index.html").render(**ictx))
