@@ -8,6 +8,7 @@ import re
 from xml.etree import ElementTree as ET
 
 import numpy as np
+import pytest
 
 from generator.render import figures as F
 from generator.render.swatch import swatch_hex, xy_to_preview_rgb
@@ -64,29 +65,60 @@ def test_saved_svg_carries_title_and_description_for_screen_readers():
     assert root.attrib["role"] == "img"
 
 
+def _marker_steps(d: str) -> str:
+    """The shape of one marker in a marker path: its commands after the first move-to."""
+    return re.split(r"M[-\d.]+,[-\d.]+", d)[1]
+
+
 def test_units_differ_by_marker_shape_as_well_as_colour():
-    _, ax = F.chromaticity_diagram(_layer([("A", (0.64, 0.33), "pass"), ("B", (0.3, 0.6), "fail"),
-                                           ("C", (0.15, 0.06), "indeterminate")]), "xy")
-    marks = {ln.get_label(): (ln.get_marker(), ln.get_markeredgecolor()) for ln in ax.lines
-             if ln.get_label().startswith("unit:")}
-    F.save_svg(ax.figure)
-    assert {m for m, _ in marks.values()} == {"o", "X", "D"}
-    assert len({c for _, c in marks.values()}) == 3
+    fig, _ = F.chromaticity_diagram(_layer([("A", (0.64, 0.33), "pass"), ("B", (0.3, 0.6), "fail"),
+                                            ("C", (0.15, 0.06), "indeterminate")]), "xy")
+    root = ET.fromstring(F.save_svg(fig))
+    marks = {el.get("class"): el for el in root.iter(f"{SVG_NS}path") if (el.get("class") or "").startswith("unit-")}
+    assert set(marks) == {"unit-pass", "unit-fail", "unit-indeterminate"}
+    shapes = {k: _marker_steps(el.get("d")) for k, el in marks.items()}
+    assert shapes["unit-pass"].startswith("a") and shapes["unit-pass"].count("a") == 2      # a circle
+    assert shapes["unit-fail"].count(" ") == 10 and shapes["unit-indeterminate"].count(" ") == 2  # X: 12, ◇: 4 corners
+    assert marks["unit-pass"].get("fill") == "none"                                           # open circle
+    assert len({el.get("stroke") for el in marks.values()}) == 3
+    legend = [t.text for t in root.iter(f"{SVG_NS}text")]
+    assert {"unit: pass", "unit: fail", "unit: indeterminate"} <= set(legend)
+
+
+def _clip_rect(root, clip_id):
+    r = root.find(f".//{SVG_NS}clipPath[@id='{clip_id}']/{SVG_NS}rect")
+    x, y, w, h = (float(r.get(k)) for k in ("x", "y", "width", "height"))
+    return x, y, x + w, y + h
 
 
 def test_white_closeup_labels_isotherms_and_constant_duv_lines_inside_its_frame():
     layer = F.Layer("w", None, [], (0.3127, 0.3290), [], [("white: circle", F.uv_circle_xy((0.3127, 0.3290), 0.004))],
                     [("U1 white", (0.3131, 0.3288), "pass")])
     fig, ax = F.white_closeup(layer)
-    texts = [t.get_text() for t in ax.texts]
-    x0, x1 = ax.get_xlim()
-    y0, y1 = ax.get_ylim()
-    inside = all(x0 <= t.get_position()[0] <= x1 and y0 <= t.get_position()[1] <= y1 for t in ax.texts)
-    below = len(fig.legends) == 1 and ax.get_legend() is None  # the legend sits below the frame, covering nothing
     svg = F.save_svg(fig)
-    assert "6500 K" in texts and any(t.startswith("Duv +0.005") for t in texts)
-    assert inside and below
+    root = ET.fromstring(svg)
+    x0, y0, x1, y1 = _clip_rect(root, "clip1")
+    assert (x0, y0, x1, y1) == pytest.approx((ax.left, ax.top, ax.right, ax.bottom), abs=0.01)
+    texts = {t.text: (float(t.get("x")), float(t.get("y"))) for t in root.iter(f"{SVG_NS}text")}
+    line_labels = {k: v for k, v in texts.items() if k.endswith(" K") or k.startswith("Duv ")}
+    assert "6500 K" in line_labels and "Duv +0.005" in line_labels
+    assert all(x0 <= x <= x1 and y0 <= y <= y1 for x, y in line_labels.values())
+    legend = root.find(f".//{SVG_NS}g[@class='legend']")
+    entries = [float(t.get("y")) for t in legend.iter(f"{SVG_NS}text")]
+    assert entries and min(entries) > y1  # the legend sits below the frame, covering nothing
     assert "white: circle (to scale)" in svg and "unit: pass" in svg
+
+
+def test_white_closeup_line_labels_do_not_overlap_each_other():
+    layer = F.Layer("w", None, [], (0.3127, 0.3290), [], [], [("U1 white", (0.33, 0.35), "fail")])
+    fig, _ = F.white_closeup(layer, span=0.03)
+    root = ET.fromstring(F.save_svg(fig))
+    boxes = [tuple(float(r.get(k)) for k in ("x", "y", "width", "height")) for r in root.iter(f"{SVG_NS}rect")
+             if r.get("fill-opacity") == "0.85"]
+    assert len(boxes) >= 6
+    for i, (xa, ya, wa, ha) in enumerate(boxes):
+        for xb, yb, wb, hb in boxes[i + 1:]:
+            assert not (xa < xb + wb and xb < xa + wa and ya < yb + hb and yb < ya + ha)
 
 
 def test_white_closeup_reuses_its_figure_without_keeping_the_last_specs_layers():
