@@ -191,3 +191,50 @@ def test_clip_path_ids_do_not_depend_on_where_objects_live_in_memory():
     clip_ids = re.findall(r'<clipPath id="([^"]+)"', svg)
     assert clip_ids == [f"clip{n}" for n in range(1, len(clip_ids) + 1)]
     assert all(f"url(#{i})" in svg for i in clip_ids)
+
+
+def test_a_diagram_drawn_after_another_is_byte_identical_to_one_drawn_before_it():
+    a = _layer([("U1 red", (0.63, 0.33), "fail")])
+    b = _layer([("U2 green", (0.31, 0.59), "pass"), ("U3 blue", (0.16, 0.07), "indeterminate")])
+    first = F.save_svg(F.chromaticity_diagram(a, "uv")[0], "t", "d")
+    F.save_svg(F.chromaticity_diagram(b, "uv")[0], "t", "d")
+    assert F.save_svg(F.chromaticity_diagram(a, "uv")[0], "t", "d") == first
+
+
+def test_the_static_frame_is_drawn_once_per_diagram_observer_and_fill():
+    assert F._static("xy", "cie1931-2", True) is F._static("xy", "cie1931-2", True)
+    two, ten = F._static("xy", "cie1931-2", False), F._static("xy", "cie1964-10", False)
+    assert two.fig.body != ten.fig.body  # the 10° locus differs
+    layer = _layer()
+    layer.observer = "cie1964-10"
+    svg = F.save_svg(F.chromaticity_diagram(layer, "xy", fill=False)[0])
+    assert "".join(ten.fig.body) in svg
+
+
+def test_a_point_of_the_layer_lands_where_the_axes_map_it():
+    fig, ax = F.chromaticity_diagram(_layer([("U1", (0.3, 0.6), "fail")]), "xy")
+    root = ET.fromstring(F.save_svg(fig))
+    d = next(p for p in root.iter(f"{SVG_NS}path") if p.get("class") == "unit-fail").get("d")
+    x, y = (float(v) for v in re.match(r"M([-\d.]+),([-\d.]+)", d).groups())
+    cx, cy = ax.px((0.3, 0.6))
+    first = F.S._SHAPES["X"][0] * 5           # the marker path starts at its first corner
+    assert (x, y) == pytest.approx((cx + first[0], cy + first[1]), abs=0.02)
+    # the axes frame: x from -0.04 to 0.8 and y from -0.02 to 0.9 at one scale
+    assert ax.sx == pytest.approx(ax.sy) and ax.px((-0.04, -0.02)).tolist() == pytest.approx([ax.left, ax.bottom])
+
+
+def test_the_legend_of_a_full_diagram_moves_off_units_drawn_where_it_would_go():
+    from generator.colour.convert import uv_prime_to_xy
+
+    # units in the corner each diagram's legend prefers (upper right in xy, lower right in u'v')
+    corner = {"xy": [(0.70 + 0.02 * i, 0.80) for i in range(3)],
+              "uv": [tuple(uv_prime_to_xy(np.array([0.55 + 0.02 * i, 0.06]))) for i in range(3)]}
+    for which, xys in corner.items():
+        units = [(f"U{i}", xy, "fail") for i, xy in enumerate(xys)]
+        fig, ax = F.chromaticity_diagram(_layer(units), which)
+        root = ET.fromstring(F.save_svg(fig))
+        r = root.find(f".//{SVG_NS}g[@class='legend']/{SVG_NS}rect")
+        x, y, w, h = (float(r.get(k)) for k in ("x", "y", "width", "height"))
+        pts = ax.px(F._to(which, np.array(xys + [(0.64, 0.33), (0.3, 0.6), (0.15, 0.06)])))
+        assert not ((pts[:, 0] >= x) & (pts[:, 0] <= x + w) & (pts[:, 1] >= y) & (pts[:, 1] <= y + h)).any(), which
+        assert "unit: fail" in [t.text for t in root.iter(f"{SVG_NS}text")]
