@@ -238,3 +238,12 @@ def test_the_legend_of_a_full_diagram_moves_off_units_drawn_where_it_would_go():
         pts = ax.px(F._to(which, np.array(xys + [(0.64, 0.33), (0.3, 0.6), (0.15, 0.06)])))
         assert not ((pts[:, 0] >= x) & (pts[:, 0] <= x + w) & (pts[:, 1] >= y) & (pts[:, 1] <= y + h)).any(), which
         assert "unit: fail" in [t.text for t in root.iter(f"{SVG_NS}text")]
+
+
+def test_diagrams_without_units_tolerances_or_targets_still_draw_their_frame():
+    bare = F.Layer("bare", None, [], (0.3127, 0.3290), [], [], [])
+    for fig in (F.white_closeup(bare)[0], F.chromaticity_diagram(F.Layer("none", None, [], None, [], [], []), "uv")[0],
+                F.white_closeup(F.Layer("nan", None, [], (0.3127, 0.3290), [], [], [("U", (np.nan, 0.3), "pass")]))[0]):
+        root = ET.fromstring(F.save_svg(fig))
+        texts = [t.text for t in root.iter(f"{SVG_NS}text")]
+        assert "u'" in texts and "v'" in texts and not any(t.startswith("unit:") for t in texts)

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import inspect
 from dataclasses import dataclass
-from functools import cache
+from functools import cache, lru_cache
 
 import numpy as np
 
@@ -189,7 +189,8 @@ def _corner(ax: S.Axes, where: str, size, pad: float = 3.5):
 
 
 def unit_keys(units) -> list[Key]:
-    present = {v for _, _, v in units}
+    """Legend entries of the verdicts drawn (a unit without a finite point draws nothing)."""
+    present = {v for _, xy, v in units if np.isfinite(np.asarray(xy, dtype=float)).all()}
     return [Key(f"unit: {v}", marker=MARKERS[v], marker_size=5, marker_fill="none" if v == "pass" else PALETTE[v],
                 marker_stroke=PALETTE[v]) for v in ("pass", "indeterminate", "fail") if v in present]
 
@@ -301,7 +302,7 @@ def white_closeup(layer: Layer, span: float = 0.02):
     constant Duv (CIE 1960 uv distances, drawn in u'v'). Lines are labelled inside the
     frame; the legend sits below it so that it covers nothing."""
     w = xy_to_uv_prime(np.array(layer.white_xy, dtype=float))
-    pts = [w[None]] + [xy_to_uv_prime(np.array([xy for _, xy, _ in layer.units], dtype=float)).reshape(-1, 2)]
+    pts = [w[None], xy_to_uv_prime(np.array([xy for _, xy, _ in layer.units], dtype=float).reshape(-1, 2))]
     pts += [xy_to_uv_prime(np.asarray(poly, dtype=float)) for _, poly in layer.tolerances]
     pts = np.vstack(pts)
     pts = pts[np.isfinite(pts).all(axis=1)]
@@ -398,8 +399,14 @@ def box_xy(centre_xy, dx, dy):
 
 
 def cct_duv_quad_xy(cct, duv, n: int = 24):
-    """The CCT x Duv quadrangle: isotherm edges and constant-Duv edges, in xy."""
+    """The CCT x Duv quadrangle: isotherm edges and constant-Duv edges, in xy (a copy of the
+    one computed for the same limits: each of its points integrates Planck's law)."""
     (t0, t1), (d0, d1) = cct, duv
+    return _cct_duv_quad(*(None if v is None else float(v) for v in (t0, t1, d0, d1)), n).copy()
+
+
+@lru_cache(maxsize=256)
+def _cct_duv_quad(t0, t1, d0, d1, n):
     t0 = t0 if t0 is not None else 1000.0
     t1 = t1 if t1 is not None else 25000.0
     d0 = d0 if d0 is not None else -0.02
