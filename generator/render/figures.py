@@ -279,22 +279,34 @@ def _white_lines(observer: str = "cie1931-2"):
     return planck_uv_prime(T, observer), duv, iso
 
 
-def _place_labels(fig, ax, labels) -> None:
+def _place_labels(fig, ax, labels, data_px) -> None:
     """Each label at the first of its candidate points (figure coordinates, best first) where
-    its box stays inside the axes and overlaps no label placed before it; none if no point fits."""
+    its box stays inside the axes, overlaps no label placed before it and covers none of
+    ``data_px`` (units, target, tolerance outlines); failing that, at the first point where it
+    only covers data; none if no point fits."""
     placed = []
+    data = np.asarray(data_px, dtype=float).reshape(-1, 2)
     for cands, s, va in labels:
         w, h = S.text_width(s, LINE_LABEL) + 2.4, LINE_LABEL + 2.4
+        fallback = None
         for x, y in cands:
             top = y - {"top": 0.0, "bottom": h, "center": h / 2}[va]
             box = (x - w / 2, top, x + w / 2, top + h)
             inside = box[0] >= ax.left and box[2] <= ax.right and box[1] >= ax.top and box[3] <= ax.bottom
-            if inside and not any(box[0] < b[2] and b[0] < box[2] and box[1] < b[3] and b[1] < box[3]
-                                  for b in placed):
-                placed.append(box)
-                fig.add(S.label_box(x, y, s, LINE_LABEL, va=va),
-                        S.text(x, y, s, LINE_LABEL, "#333333", anchor="middle", va=va))
+            if not inside or any(box[0] < b[2] and b[0] < box[2] and box[1] < b[3] and b[1] < box[3]
+                                 for b in placed):
+                continue
+            covers = ((data[:, 0] >= box[0]) & (data[:, 0] <= box[2]) & (data[:, 1] >= box[1])
+                      & (data[:, 1] <= box[3])).any()
+            if not covers:
+                fallback = (x, y, box)
                 break
+            fallback = fallback or (x, y, box)
+        if fallback is not None:
+            x, y, box = fallback
+            placed.append(box)
+            fig.add(S.label_box(x, y, s, LINE_LABEL, va=va), S.text(x, y, s, LINE_LABEL, "#333333", anchor="middle",
+                                                                   va=va))
 
 
 def white_closeup(layer: Layer, span: float = 0.02):
@@ -353,7 +365,10 @@ def white_closeup(layer: Layer, span: float = 0.02):
             labels.append((ax.px(vis[np.argsort(-vis[:, 1], kind="stable")]).tolist(), f"{t} K", "top"))
     if iso_key:
         keys.append(Key("isotherms (CCT) and lines of constant Duv", PALETTE["isotherm"], 0.7))
-    _place_labels(fig, ax, labels)
+    data = [ax.px(w[None]), ax.px(xy_to_uv_prime(np.array([xy for _, xy, _ in layer.units], dtype=float)
+                                                  .reshape(-1, 2)))]
+    data += [_densify(ax.px(xy_to_uv_prime(np.asarray(poly, dtype=float))), True, 3.0) for _, poly in layer.tolerances]
+    _place_labels(fig, ax, labels, np.vstack(data))
     for i, (label, poly) in enumerate(layer.tolerances):
         dash = TOLERANCE_DASHES[i % len(TOLERANCE_DASHES)]
         fig.add(S.line(ax.px(xy_to_uv_prime(np.asarray(poly, dtype=float))), PALETTE["tolerance"], 1.1, dash,
