@@ -4,9 +4,10 @@
 
 Writes N specs (default 200; every fifth extends the one before it) into a temporary
 folder (with --lots every tenth spec also has 24 measured units in two lots, so that
-the build draws lot and supplier pages with their diagrams and histograms), builds them clean, rebuilds with nothing changed, edits one spec's tolerance
-and rebuilds, then checks that the incremental site equals a full build byte for byte.
-Prints seconds and the ratio; nothing is asserted about speed (no timed tests).
+the build draws lot and supplier pages with their diagrams and histograms), builds them
+clean, rebuilds with nothing changed, edits one spec's tolerance and rebuilds, then
+checks that the incremental site equals a full build byte for byte. Prints seconds and
+the ratio; nothing is asserted about speed (no timed tests).
 """
 from __future__ import annotations
 

@@ -77,9 +77,10 @@ def test_units_differ_by_marker_shape_as_well_as_colour():
     marks = {el.get("class"): el for el in root.iter(f"{SVG_NS}path") if (el.get("class") or "").startswith("unit-")}
     assert set(marks) == {"unit-pass", "unit-fail", "unit-indeterminate"}
     shapes = {k: _marker_steps(el.get("d")) for k, el in marks.items()}
-    assert shapes["unit-pass"].startswith("a") and shapes["unit-pass"].count("a") == 2      # a circle
-    assert shapes["unit-fail"].count(" ") == 10 and shapes["unit-indeterminate"].count(" ") == 2  # X: 12, ◇: 4 corners
-    assert marks["unit-pass"].get("fill") == "none"                                           # open circle
+    assert shapes["unit-pass"].startswith("a") and shapes["unit-pass"].count("a") == 2   # a circle
+    assert shapes["unit-fail"].count(" ") == 10                                           # an X: 12 corners
+    assert shapes["unit-indeterminate"].count(" ") == 2                                   # a diamond: 4 corners
+    assert marks["unit-pass"].get("fill") == "none"                                       # open circle
     assert len({el.get("stroke") for el in marks.values()}) == 3
     legend = [t.text for t in root.iter(f"{SVG_NS}text")]
     assert {"unit: pass", "unit: fail", "unit: indeterminate"} <= set(legend)

@@ -190,3 +190,24 @@ def test_long_labels_are_shortened_for_the_legend_only():
 
 def test_the_same_figure_gives_the_same_bytes():
     assert _figure().to_svg("t", "d") == _figure().to_svg("t", "d")
+
+
+def test_labels_too_wide_for_the_legend_are_narrowed_whole_to_fit():
+    long = "Reference " * 12
+    keys = [S.Key("short", "#000000"), S.Key(long, "#000000")]
+    natural = S.legend_size(keys, 7)[0]
+    w, h = S.legend_size(keys, 7, max_width=300)
+    assert natural > 300 and w == pytest.approx(300)
+    root = ET.fromstring(f'<svg xmlns="http://www.w3.org/2000/svg">{S.legend(keys, S.LegendBox(0, 0, w, h), 7)}</svg>')
+    texts = {t.text: t for t in root.iter(f"{SVG_NS}text")}
+    assert long in texts                                     # the whole text, narrowed
+    assert float(texts[long].get("textLength")) + float(texts[long].get("x")) <= 300
+    assert texts[long].get("lengthAdjust") == "spacingAndGlyphs" and texts["short"].get("textLength") is None
+
+
+def test_a_narrow_column_keeps_its_width_when_a_wide_one_is_narrowed():
+    keys = [S.Key("a", "#000"), S.Key("b", "#000"), S.Key("w" * 80, "#000"), S.Key("x", "#000")]
+    w, _ = S.legend_size(keys, 7, ncols=2, max_width=250)
+    assert w == pytest.approx(250)
+    svg = S.legend(keys, S.LegendBox(0, 0, w, 30), 7, ncols=2)
+    assert svg.count("textLength") == 1

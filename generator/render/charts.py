@@ -58,8 +58,9 @@ def histogram(values, lo, hi, guard, title: str, xlabel: str, bins: int = 30):
         px = float(ax.x(x))
         fig.add(S.line([(px, ax.top), (px, ax.bottom)], PALETTE["tolerance"], lw, dash, clip=clip))
     fig.add(S.frame(ax, xt, yt, xlabel, "units", xd, yd))
-    fig.add(S.text(ax.left + ax.width / 2, ax.top - 6, S.shorten(title), 9, anchor="middle"))
-    w, h = S.legend_size(keys, 6.5, ncols=2)
+    fig.add(S.text(ax.left + ax.width / 2, ax.top - 6, S.shorten(title), 9, anchor="middle",
+                   max_width=HIST_SIZE[0] - 20))
+    w, h = S.legend_size(keys, 6.5, ncols=2, max_width=HIST_SIZE[0] - 20)
     fig.add(S.legend(keys, S.LegendBox(ax.left + (ax.width - w) / 2, ax.bottom + 34, w, h), 6.5, ncols=2,
                      frame=False))
     return fig, ax
@@ -103,8 +104,8 @@ def spectra_plot(series, observer_title: str):
         keys.append(Key("measured units", "#444444", 0.7, (0, (3, 2))))
     fig.add(S.frame(ax, xt, yt, "wavelength (nm)", "relative to own peak", xd, yd))
     fig.add(S.text(ax.left + ax.width / 2, ax.top - 8, S.shorten(f"Spectra ({observer_title} used to integrate them)"),
-                   10, anchor="middle"))
-    size = S.legend_size(keys, 7)
+                   10, anchor="middle", max_width=SPECTRA_SIZE[0] - 20))
+    size = S.legend_size(keys, 7, max_width=ax.width - 7)
     fig.add(S.legend(keys, S.LegendBox(ax.right - 3.5 - size[0], ax.top + 3.5, *size), 7))
     return fig, ax
 
@@ -145,9 +146,9 @@ def volume_slices(slices, spec_label: str, reference_label: str):
                         xticklabels=r == 1, yticklabels=c == 0))
         fig.add(S.text(ax.left + ax.width / 2, ax.top - 5, f"L* = {L:g}", 8, anchor="middle"))
     keys = [Key(spec_label, PALETTE["gamut"], 1.2), Key(reference_label, "#6b6b6b", 1.2, (0, (4, 2)))]
-    w, h = S.legend_size(keys, 7, ncols=2)
+    w, h = S.legend_size(keys, 7, ncols=2, max_width=VOLUME_SIZE[0] - 20)
     bottom = max((a.bottom for a in axes), default=300.0)
     fig.add(S.legend(keys, S.LegendBox((VOLUME_SIZE[0] - w) / 2, bottom + 34, w, h), 7, ncols=2, frame=False))
-    fig.add(S.text(VOLUME_SIZE[0] / 2, 14, S.shorten(f"CIELAB gamut at six lightness levels, against {reference_label}"),
-                   10, anchor="middle", va="top"))
+    title = S.shorten(f"CIELAB gamut at six lightness levels, against {reference_label}")
+    fig.add(S.text(VOLUME_SIZE[0] / 2, 14, title, 10, anchor="middle", va="top", max_width=VOLUME_SIZE[0] - 20))
     return fig, axes

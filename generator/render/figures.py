@@ -251,8 +251,8 @@ def chromaticity_diagram(layer: Layer, diagram: str, fill: bool = True):
     points.append(draw_units(fig, ax, layer.units, to_px, clip))
     keys += unit_keys(layer.units)
     fig.add(S.text((FULL_AXES[0] + FULL_AXES[2] / 2) * FULL_SIZE[0], 0.025 * FULL_SIZE[1], S.shorten(layer.title),
-                   10, anchor="middle", va="top"))
-    size = S.legend_size(keys, LEGEND_FONT)
+                   10, anchor="middle", va="top", max_width=FULL_SIZE[0] - 20))
+    size = S.legend_size(keys, LEGEND_FONT, max_width=ax.width - 7)
     avoid = [st.avoid, *lines, *points]
     weights = [np.ones(len(st.avoid))] + [np.ones(len(p)) for p in lines] + [np.full(len(p), 25.0) for p in points]
     box = S.place_legend([_corner(ax, c, size) for c in _CORNERS[diagram]], size, np.vstack(avoid),
@@ -381,8 +381,8 @@ def white_closeup(layer: Layer, span: float = 0.02):
     keys += unit_keys(layer.units)
     fig.add(S.frame(ax, xt, yt, "u'", "v'", xd, yd))
     fig.add(S.text(0.55 * WHITE_SIZE[0], 0.015 * WHITE_SIZE[1], S.shorten(layer.title), 10, anchor="middle",
-                   va="top"))
-    lw, lh = S.legend_size(keys, LEGEND_FONT, ncols=2)
+                   va="top", max_width=WHITE_SIZE[0] - 20))
+    lw, lh = S.legend_size(keys, LEGEND_FONT, ncols=2, max_width=WHITE_SIZE[0] - 20)
     top = ax.bottom + 36
     fig.add(S.legend(keys, S.LegendBox((WHITE_SIZE[0] - lw) / 2, top, lw, lh), LEGEND_FONT, ncols=2, frame=False))
     return fig, ax

@@ -162,8 +162,9 @@ _BASELINE = {"baseline": 0.0, "center": 0.36, "top": 0.76, "bottom": -0.24}
 
 
 def text(x, y, s, size: float = 9, colour: str = "#000000", anchor: str = "start", va: str = "baseline",
-         rotate: float | None = None, clip: str | None = None) -> str:
-    """One line of text; ``anchor`` start / middle / end, ``va`` baseline / center / top / bottom."""
+         rotate: float | None = None, clip: str | None = None, max_width: float | None = None) -> str:
+    """One line of text; ``anchor`` start / middle / end, ``va`` baseline / center / top / bottom.
+    Text wider than ``max_width`` is drawn whole, its glyphs narrowed to fit (``textLength``)."""
     if rotate:  # the offset for the alignment is taken along the rotated vertical
         t = math.radians(rotate)
         off = _BASELINE[va] * size
@@ -174,7 +175,10 @@ def text(x, y, s, size: float = 9, colour: str = "#000000", anchor: str = "start
         tr = ""
     return (f'<text x="{num(x)}" y="{num(y)}" font-size="{num(size)}"' + _attrs(fill=colour)
             + (f' text-anchor="{anchor}"' if anchor != "start" else "") + tr
-            + (f' clip-path="url(#{clip})"' if clip else "") + f">{esc(s)}</text>\n")
+            + (f' clip-path="url(#{clip})"' if clip else "")
+            + (f' textLength="{num(max_width)}" lengthAdjust="spacingAndGlyphs"'
+               if max_width is not None and text_width(s, size) > max_width else "")
+            + f">{esc(s)}</text>\n")
 
 
 def label_box(x, y, s, size, anchor="middle", va="center", pad=1.2, fill="#ffffff", opacity=0.85):
@@ -321,33 +325,63 @@ class LegendBox:
                 & (px[:, 1] <= self.y + self.height))
 
 
-def legend_size(keys, size: float = 7, ncols: int = 1) -> tuple[float, float]:
+_SAMPLE, _COL_GAP, _PAD = 2.8, 1.5, 0.4   # in em: sample to label, between columns, inside the box
+
+
+def _columns(keys, ncols):
     rows = math.ceil(len(keys) / ncols)
-    cols = [keys[i * rows:(i + 1) * rows] for i in range(ncols)]
-    widths = [max(text_width(shorten(k.label), size) for k in col) + 2.8 * size for col in cols if col]
-    return sum(widths) + size * (0.8 + 1.5 * (len(widths) - 1)), rows * 1.4 * size + 0.8 * size
+    return [col for col in (keys[i * rows:(i + 1) * rows] for i in range(ncols)) if col], rows
+
+
+def _fixed_width(n_cols: int, size: float) -> float:
+    return size * (2 * _PAD + _SAMPLE * n_cols + _COL_GAP * (n_cols - 1))
+
+
+def _label_cap(natural, room: float, size: float) -> float:
+    """The widest a column's labels may be so that the columns fit ``room`` (narrow columns
+    keep their width, the others share the rest equally); inf if everything fits."""
+    if room == math.inf or sum(natural) <= room + 0.01:
+        return math.inf
+    left, ns = room, sorted(natural)
+    for i, n in enumerate(ns):
+        share = left / (len(ns) - i)
+        if n > share:
+            return max(share, 4 * size)
+        left -= n
+    return math.inf
+
+
+def legend_size(keys, size: float = 7, ncols: int = 1, max_width: float | None = None) -> tuple[float, float]:
+    """Width and height of the legend; with ``max_width`` the widest labels are narrowed so
+    that the legend fits it."""
+    cols, rows = _columns(keys, ncols)
+    fixed = _fixed_width(len(cols), size)
+    natural = [max(text_width(shorten(k.label), size) for k in col) for col in cols]
+    cap = _label_cap(natural, math.inf if max_width is None else max_width - fixed, size)
+    return fixed + sum(min(n, cap) for n in natural), rows * 1.4 * size + 2 * _PAD * size
 
 
 def legend(keys, box: LegendBox, size: float = 7, ncols: int = 1, frame: bool = True,
            opacity: float = 0.92) -> str:
-    """The entries in ``ncols`` columns (filled column by column) inside ``box``."""
+    """The entries in ``ncols`` columns (filled column by column) inside ``box``; labels too
+    wide for the box's width are narrowed to fit (see ``legend_size``)."""
     if not keys:
         return ""
     out = ['<g class="legend">\n']
     if frame:
         out.append(f'<rect x="{num(box.x)}" y="{num(box.y)}" width="{num(box.width)}" height="{num(box.height)}"'
                    f' rx="2" fill="#ffffff" fill-opacity="{opacity}" stroke="#cccccc" stroke-width="0.8"/>\n')
-    rows = math.ceil(len(keys) / ncols)
-    x = box.x + 0.4 * size
-    for c in range(ncols):
-        col = keys[c * rows:(c + 1) * rows]
-        if not col:
-            break
+    cols, _ = _columns(keys, ncols)
+    natural = [max(text_width(shorten(k.label), size) for k in col) for col in cols]
+    cap = _label_cap(natural, box.width - _fixed_width(len(cols), size), size)
+    x = box.x + _PAD * size
+    for col, wide in zip(cols, natural, strict=True):
         for r, k in enumerate(col):
-            y = box.y + 0.4 * size + (r + 0.5) * 1.4 * size
+            y = box.y + _PAD * size + (r + 0.5) * 1.4 * size
             out.append(_sample(k, x, y, 2.0 * size))
-            out.append(text(x + 2.8 * size, y, shorten(k.label), size, va="center"))
-        x += max(text_width(shorten(k.label), size) for k in col) + 2.8 * size + 1.5 * size
+            out.append(text(x + _SAMPLE * size, y, shorten(k.label), size, va="center",
+                            max_width=None if cap == math.inf else cap))
+        x += min(wide, cap) + (_SAMPLE + _COL_GAP) * size
     out.append("</g>\n")
     return "".join(out)
 
