@@ -248,3 +248,21 @@ def test_diagrams_without_units_tolerances_or_targets_still_draw_their_frame():
         root = ET.fromstring(F.save_svg(fig))
         texts = [t.text for t in root.iter(f"{SVG_NS}text")]
         assert "u'" in texts and "v'" in texts and not any(t.startswith("unit:") for t in texts)
+
+
+def test_target_names_keep_off_each_other_and_the_wavelength_labels():
+    prim = [("red", (0.69, 0.31)), ("status-red", (0.695, 0.305)), ("green", (0.19, 0.71)),
+            ("status-green", (0.185, 0.705)), ("blue", (0.14, 0.07)), ("status-blue", (0.138, 0.075))]
+    layer = F.Layer("labels", None, prim, None, [], [], [])
+    for which in ("xy", "uv"):
+        root = ET.fromstring(F.save_svg(F.chromaticity_diagram(layer, which)[0]))
+        boxes = {}
+        for t in root.iter(f"{SVG_NS}text"):
+            if t.text in dict(prim) or t.text.isdigit() and len(t.text) == 3:
+                boxes[t.text] = F.S.text_box(float(t.get("x")), float(t.get("y")), t.text, float(t.get("font-size")),
+                                             t.get("text-anchor") or "start")
+        names = [n for n, _ in prim]
+        assert set(names) <= set(boxes)
+        for n in names:
+            others = [b for k, b in boxes.items() if k != n]
+            assert not any(F.S._meets(boxes[n], b) for b in others), (which, n)

@@ -211,3 +211,23 @@ def test_a_narrow_column_keeps_its_width_when_a_wide_one_is_narrowed():
     assert w == pytest.approx(250)
     svg = S.legend(keys, S.LegendBox(0, 0, w, 30), 7, ncols=2)
     assert svg.count("textLength") == 1
+
+
+def test_a_text_box_follows_anchor_and_alignment():
+    w = S.text_width("abc", 10)
+    assert S.text_box(100, 50, "abc", 10) == pytest.approx((100, 50 - 7.6, 100 + w, 52.4))
+    assert S.text_box(100, 50, "abc", 10, "end")[2] == pytest.approx(100)
+    left, top, right, bottom = S.text_box(100, 50, "abc", 10, "middle", "top", pad=1)
+    assert (left + right) / 2 == pytest.approx(100) and top == pytest.approx(49)
+
+
+def test_free_place_skips_taken_boxes_then_covered_points_then_leaves_the_bounds():
+    cands = [(0, 10, "start", "baseline"), (0, 30, "start", "baseline"), (0, 50, "start", "baseline")]
+    first = S.text_box(0, 10, "t", 10)
+    assert S.free_place(cands, "t", 10, [])[0] == cands[0]
+    assert S.free_place(cands, "t", 10, [first])[0] == cands[1]
+    assert S.free_place(cands, "t", 10, [first], points=[(2, 28)])[0] == cands[2]
+    # every free place covers a point: the first that meets no box
+    assert S.free_place(cands, "t", 10, [first], points=[(2, 28), (2, 48)])[0] == cands[1]
+    assert S.free_place(cands, "t", 10, [], bounds=(0, 40, 100, 100))[0] == cands[2]
+    assert S.free_place(cands, "t", 10, [], bounds=(0, 100, 100, 200)) is None

@@ -121,6 +121,7 @@ class _Static:
     ax: S.Axes
     clip: str                    # id of the axes' clip path
     avoid: np.ndarray            # figure points the legend should not cover (locus, Planckian locus)
+    label_boxes: tuple           # boxes of the wavelength labels, which target labels keep off
 
 
 @cache
@@ -146,13 +147,14 @@ def _static(diagram: str, observer: str, fill: bool) -> _Static:
     fig.add(S.grid(ax, xt, yt, PALETTE["grid"]))
     fig.add(S.line(loc_px, PALETTE["locus"], 0.9, closed=True, clip=clip))
     c = loc.mean(axis=0)
-    ticks, labels = [], []
+    ticks, labels, boxes = [], [], []
     for w in LOCUS_LABELS:
         p = loc[int(np.argmin(np.abs(wl - w)))]
         d = (p - c) / max(np.linalg.norm(p - c), 1e-9)
         ticks.append(ax.px(np.array([p, p + 0.012 * d])))
         q = ax.px(p + 0.03 * d)
         labels.append(S.text(q[0], q[1], f"{w}", 7, TEXT_GREY, anchor="middle", va="center"))
+        boxes.append(S.text_box(q[0], q[1], f"{w}", 7, "middle", "center"))
     fig.add(f'<path d="{"".join(S.path_d(t) for t in ticks)}" stroke="{PALETTE["locus"]}" stroke-width="0.6"/>\n',
             *labels)
     pl = planck_uv_prime(np.geomspace(1000, 25000, 80), observer)
@@ -161,7 +163,7 @@ def _static(diagram: str, observer: str, fill: bool) -> _Static:
     fig.add(S.frame(ax, xt, yt, f["xlabel"], f["ylabel"], xd, yd))
     if fill:
         fig.add(S.text(FULL_AXES[0] * FULL_SIZE[0], FULL_SIZE[1] * (1 - 0.012), FILL_NOTE, 7, TEXT_GREY))
-    return _Static(fig, ax, clip, np.vstack([loc_px, pl_px]))
+    return _Static(fig, ax, clip, np.vstack([loc_px, pl_px]), tuple(boxes))
 
 
 def _densify(px, closed: bool, step: float = 4.0) -> np.ndarray:
@@ -239,8 +241,6 @@ def chromaticity_diagram(layer: Layer, diagram: str, fill: bool = True):
     if layer.primaries:
         px = to_px(np.array([xy for _, xy in layer.primaries], dtype=float))
         fig.add(S.markers(px, "+", 8, "none", PALETTE["target"], 1.0, clip=clip))
-        fig.add(*(S.text(p[0] + 5, p[1] - 5, S.shorten(name), 8) for (name, _), p in zip(layer.primaries, px,
-                                                                                          strict=True)))
         points.append(px)
     if layer.white_xy is not None:
         px = to_px(np.array([layer.white_xy], dtype=float))
@@ -258,7 +258,33 @@ def chromaticity_diagram(layer: Layer, diagram: str, fill: bool = True):
     box = S.place_legend([_corner(ax, c, size) for c in _CORNERS[diagram]], size, np.vstack(avoid),
                          np.concatenate(weights))
     fig.add(S.legend(keys, box, LEGEND_FONT))
+    if layer.primaries:
+        _target_labels(fig, ax, layer.primaries, to_px, [*st.label_boxes, (box.x, box.y, box.x + box.width,
+                                                                           box.y + box.height)], np.vstack(points))
     return fig, ax
+
+
+TARGET_LABEL = 8.0
+# offsets (points) and alignment of a target's name around its mark, in order of preference
+_AROUND = ((5, -5, "start", "baseline"), (5, 5, "start", "top"), (-5, -5, "end", "baseline"), (-5, 5, "end", "top"),
+           (0, -7, "middle", "baseline"), (0, 7, "middle", "top"), (7, 0, "start", "center"), (-7, 0, "end", "center"))
+
+
+def _target_labels(fig, ax, targets, to_px, taken, points) -> None:
+    """Each target's name beside its mark: up and to the right where that is free, else at the
+    first of the other places around it (near, then farther) that meets no other label, the
+    wavelength labels or the legend, and covers no drawn point."""
+    taken = list(taken)
+    bounds = (ax.left, ax.top, ax.right, ax.bottom)
+    px = to_px(np.array([xy for _, xy in targets], dtype=float))
+    for (name, _), (x, y) in zip(targets, px.tolist(), strict=True):
+        s = S.shorten(name)
+        cands = [(x + k * dx, y + k * dy, anchor, va) for k in (1, 2.5)
+                 for dx, dy, anchor, va in _AROUND]
+        found = S.free_place(cands, s, TARGET_LABEL, taken, points, bounds)
+        (cx, cy, anchor, va), b = found if found is not None else (cands[0], S.text_box(*cands[0][:2], s, TARGET_LABEL))
+        taken.append(b)
+        fig.add(S.text(cx, cy, s, TARGET_LABEL, anchor=anchor, va=va))
 
 
 TOLERANCE_DASHES = ("-", (0, (4, 2)), (0, (1, 1.5)))
@@ -280,31 +306,16 @@ def _white_lines(observer: str = "cie1931-2"):
 
 
 def _place_labels(fig, ax, labels, data_px) -> None:
-    """Each label at the first of its candidate points (figure coordinates, best first) where
-    its box stays inside the axes, overlaps no label placed before it and covers none of
-    ``data_px`` (units, target, tolerance outlines); failing that, at the first point where it
-    only covers data; none if no point fits."""
-    placed = []
-    data = np.asarray(data_px, dtype=float).reshape(-1, 2)
+    """Each line label at the first of its candidate points (figure coordinates, best first)
+    where its box stays inside the axes, meets no label placed before it and covers none of
+    ``data_px`` (units, target, tolerance outlines); failing that where it only covers data."""
+    taken = []
+    bounds = (ax.left, ax.top, ax.right, ax.bottom)
     for cands, s, va in labels:
-        w, h = S.text_width(s, LINE_LABEL) + 2.4, LINE_LABEL + 2.4
-        fallback = None
-        for x, y in cands:
-            top = y - {"top": 0.0, "bottom": h, "center": h / 2}[va]
-            box = (x - w / 2, top, x + w / 2, top + h)
-            inside = box[0] >= ax.left and box[2] <= ax.right and box[1] >= ax.top and box[3] <= ax.bottom
-            if not inside or any(box[0] < b[2] and b[0] < box[2] and box[1] < b[3] and b[1] < box[3]
-                                 for b in placed):
-                continue
-            covers = ((data[:, 0] >= box[0]) & (data[:, 0] <= box[2]) & (data[:, 1] >= box[1])
-                      & (data[:, 1] <= box[3])).any()
-            if not covers:
-                fallback = (x, y, box)
-                break
-            fallback = fallback or (x, y, box)
-        if fallback is not None:
-            x, y, box = fallback
-            placed.append(box)
+        found = S.free_place([(x, y, "middle", va) for x, y in cands], s, LINE_LABEL, taken, data_px, bounds, 1.2)
+        if found is not None:
+            (x, y, _, _), box = found
+            taken.append(box)
             fig.add(S.label_box(x, y, s, LINE_LABEL, va=va), S.text(x, y, s, LINE_LABEL, "#333333", anchor="middle",
                                                                    va=va))
 

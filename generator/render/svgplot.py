@@ -181,12 +181,43 @@ def text(x, y, s, size: float = 9, colour: str = "#000000", anchor: str = "start
             + f">{esc(s)}</text>\n")
 
 
-def label_box(x, y, s, size, anchor="middle", va="center", pad=1.2, fill="#ffffff", opacity=0.85):
-    """The rectangle behind ``text(x, y, s, size, anchor=anchor, va=va)``, as (x, y, w, h)."""
+def text_box(x, y, s, size, anchor="start", va="baseline", pad=0.0) -> tuple[float, float, float, float]:
+    """(left, top, right, bottom) of ``text(x, y, s, size, anchor=anchor, va=va)``, grown by ``pad``."""
     w = text_width(s, size)
     left = x - {"start": 0, "middle": w / 2, "end": w}[anchor]
     base = y + _BASELINE[va] * size
-    return rect(left - pad, base - 0.76 * size - pad, w + 2 * pad, size + 2 * pad, fill=fill, opacity=opacity)
+    return left - pad, base - 0.76 * size - pad, left + w + pad, base + 0.24 * size + pad
+
+
+def label_box(x, y, s, size, anchor="middle", va="center", pad=1.2, fill="#ffffff", opacity=0.85):
+    """The rectangle drawn behind ``text(x, y, s, size, anchor=anchor, va=va)``."""
+    x0, y0, x1, y1 = text_box(x, y, s, size, anchor, va, pad)
+    return rect(x0, y0, x1 - x0, y1 - y0, fill=fill, opacity=opacity)
+
+
+def _meets(a, b) -> bool:
+    return a[0] < b[2] and b[0] < a[2] and a[1] < b[3] and b[1] < a[3]
+
+
+def free_place(cands, s, size, taken, points=(), bounds=None, pad=0.0):
+    """Where to put a text: the first of the candidates ``(x, y, anchor, va)`` whose box stays
+    inside ``bounds`` (left, top, right, bottom), meets none of the boxes ``taken`` and
+    covers none of ``points``; failing that the first that only covers points; else None.
+    Returns (candidate, its box)."""
+    pts = np.asarray(points, dtype=float).reshape(-1, 2)
+    fallback = None
+    for c in cands:
+        box = text_box(c[0], c[1], s, size, c[2], c[3], pad)
+        if bounds is not None and not (box[0] >= bounds[0] and box[1] >= bounds[1] and box[2] <= bounds[2]
+                                       and box[3] <= bounds[3]):
+            continue
+        if any(_meets(box, b) for b in taken):
+            continue
+        if not len(pts) or not ((pts[:, 0] >= box[0]) & (pts[:, 0] <= box[2]) & (pts[:, 1] >= box[1])
+                                & (pts[:, 1] <= box[3])).any():
+            return c, box
+        fallback = fallback or (c, box)
+    return fallback
 
 
 # --- axes ----------------------------------------------------------------------------------
