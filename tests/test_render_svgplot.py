@@ -130,7 +130,8 @@ def test_clip_ids_are_unique_numbered_in_order_and_each_is_used():
 def test_a_line_breaks_at_a_missing_point_and_a_closed_one_ends_with_z():
     assert S.path_d([(0, 0), (1, 1), (np.nan, 2), (3, 3), (4, 4)]) == "M0,0L1,1M3,3L4,4"
     assert S.path_d([(0, 0), (1, 0), (1, 1)], closed=True) == "M0,0L1,0 1,1Z"
-    assert S.line([(np.nan, 0)], "#000000") == ""
+    assert S.line([(np.nan, 0)], "#000000") == "" and S.line(np.zeros((0, 2)), "#000000") == ""
+    assert S.path_d([]) == ""
 
 
 def test_markers_are_drawn_by_shape_around_each_point():

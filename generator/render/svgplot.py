@@ -75,6 +75,8 @@ def path_d(px, closed: bool = False) -> str:
         runs = [px[a:b] for a, b in zip(edges[::2], edges[1::2], strict=True)]
     out = []
     for run in runs:
+        if not len(run):
+            continue
         p = _pairs(run)
         out.append("M" + p[0] + ("L" + " ".join(p[1:]) if len(p) > 1 else "") + ("Z" if closed else ""))
     return "".join(out)
