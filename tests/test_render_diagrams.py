@@ -266,3 +266,15 @@ def test_target_names_keep_off_each_other_and_the_wavelength_labels():
         for n in names:
             others = [b for k, b in boxes.items() if k != n]
             assert not any(F.S._meets(boxes[n], b) for b in others), (which, n)
+
+
+def test_the_observer_is_passed_to_planckian_functions_that_take_it_and_not_to_others():
+    def with_observer(T, duv=0.0, observer="cie1931-2"):
+        return observer
+
+    def without(T, duv=0.0):
+        return None
+
+    assert F._kw(with_observer, "cie1964-10") == {"observer": "cie1964-10"}
+    assert F._kw(without, "cie1964-10") == {}
+    assert np.isfinite(F.planck_uv_prime(np.array([6500.0]), "cie1964-10")).all()
