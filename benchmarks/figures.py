@@ -1,9 +1,12 @@
-"""Print how long the demo site's diagrams take to draw and save as SVG (medians).
+"""Print how long the demo site's figures take to draw and save as SVG (medians).
 
     OPENBLAS_NUM_THREADS=1 python benchmarks/figures.py
 
 Not a test: timings on a shared machine vary; compare runs made one after the other.
 The in-memory memo of drawn diagrams is cleared before every draw, so each is drawn.
+The first diagram of a process (imports done, static layers not yet drawn) is timed
+apart from the rest; histograms are timed per lot page (all of a lot's histograms,
+divided by their number).
 """
 from __future__ import annotations
 
@@ -12,30 +15,56 @@ import sys
 import time
 from pathlib import Path
 
+import numpy as np
+
 ROOT = Path(__file__).resolve().parent.parent
+KINDS = ("xy", "uv", "white", "spectra", "volume")
 
 
 def main(repeats: int = 5) -> int:
     sys.path.insert(0, str(ROOT))
     from generator.build import evaluate
     from generator.render import diagrams as D
+    from generator.render import lots as L
 
     evaluated, _ = evaluate(ROOT / "specs")
-    D.spec_figures(evaluated[0])  # warm-up: imports, fonts, the static layers drawn once
-    times: dict[str, list[float]] = {"xy": [], "uv": [], "white": []}
+    e0 = evaluated[0]
+    layer = D.layer_for(e0, "xy")
+    t0 = time.perf_counter()
+    D._draw("xy", layer, "benchmark", "benchmark")
+    first = (time.perf_counter() - t0) * 1000
+    calls = []
+    real = D._draw
+    D._draw = lambda which, layer, title, desc: calls.append((which, layer, title, desc)) or real(which, layer,
+                                                                                                  title, desc)
+    for e in evaluated:
+        D.spec_figures(e)   # warm-up: every kind drawn once, and the arguments of each draw kept
+    D._draw = real
+    times: dict[str, list[float]] = {k: [] for k in KINDS}
     for _ in range(repeats):
-        for e in evaluated:
-            for which in times:
-                if which == "white" and e.spec.white is None:
-                    continue
-                layer = D.layer_for(e, which)
-                D._SVG_MEMO.clear()
+        for which, layer, title, desc in calls:
+            D._SVG_MEMO.clear()
+            t0 = time.perf_counter()
+            D._draw(which, layer, title, desc)
+            times[which].append((time.perf_counter() - t0) * 1000)
+    hist = []
+    for e in evaluated:
+        a = e.assessment
+        if a.table is None or not a.lots:
+            continue
+        lot_arr = np.array(a.table.lot, dtype=object)
+        for lot in a.lots:
+            members = np.flatnonzero(lot_arr == lot["lot"])
+            for _ in range(repeats):
                 t0 = time.perf_counter()
-                D._draw(which, layer, "benchmark", "benchmark")
-                times[which].append((time.perf_counter() - t0) * 1000)
-    for which, ts in times.items():
-        print(f"{which:>5}: median {statistics.median(ts):6.1f} ms over {len(ts)} draws "
-              f"(min {min(ts):.1f}, max {max(ts):.1f})")
+                n = len(L._histograms(e, members, "bench"))
+                if n:
+                    hist.append((time.perf_counter() - t0) * 1000 / n)
+    print(f"first diagram of the process (xy, static layers drawn): {first:6.1f} ms")
+    for which, ts in [*times.items(), ("histogram", hist)]:
+        if ts:
+            print(f"{which:>9}: median {statistics.median(ts):6.1f} ms over {len(ts)} draws "
+                  f"(min {min(ts):.1f}, max {max(ts):.1f})")
     return 0
 
 

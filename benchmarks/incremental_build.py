@@ -1,11 +1,13 @@
 """Clean against incremental build of a generated library of specs.
 
-    OPENBLAS_NUM_THREADS=1 python benchmarks/incremental_build.py [N]
+    OPENBLAS_NUM_THREADS=1 python benchmarks/incremental_build.py [N] [--lots]
 
 Writes N specs (default 200; every fifth extends the one before it) into a temporary
-folder, builds them clean, rebuilds with nothing changed, edits one spec's tolerance
-and rebuilds, then checks that the incremental site equals a full build byte for byte.
-Prints seconds and the ratio; nothing is asserted about speed (no timed tests).
+folder (with --lots every tenth spec also has 24 measured units in two lots, so that
+the build draws lot and supplier pages with their diagrams and histograms), builds them
+clean, rebuilds with nothing changed, edits one spec's tolerance and rebuilds, then
+checks that the incremental site equals a full build byte for byte. Prints seconds and
+the ratio; nothing is asserted about speed (no timed tests).
 """
 from __future__ import annotations
 
@@ -51,7 +53,19 @@ white:
 """
 
 
-def write_library(folder: Path, n: int) -> None:
+def lot_units(i: int, count: int = 24) -> str:
+    """``count`` more inline units of spec ``i`` in two lots from two suppliers (fixed offsets)."""
+    rows = []
+    for k in range(count):
+        d = ((k * 7) % 11 - 5) * 0.0004
+        rows.append(f"  - {{serial: B{i:03d}-L{k:02d}, lot: LOT{k % 2}, supplier: Supplier {k % 2},"
+                    f" white: {{x: {0.3127 + d:.4f}, y: {0.3290 - d / 2:.4f}, Y: {255 + k}}},"
+                    f" red: {{x: {0.640 + d:.4f}, y: 0.3300}}, green: {{x: 0.3000, y: {0.600 + d:.4f}}},"
+                    f" blue: {{x: 0.1500, y: {0.0600 + d / 4:.4f}}}}}")
+    return "\n".join(rows) + "\n"
+
+
+def write_library(folder: Path, n: int, lots: bool = False) -> None:
     folder.mkdir(parents=True)
     for i in range(n):
         if i % 5 == 4:
@@ -59,6 +73,8 @@ def write_library(folder: Path, n: int) -> None:
         else:
             text = SPEC.format(i=i, wx=0.3127 + 0.0001 * (i % 7), wy=0.3290 - 0.0001 * (i % 5),
                                rx=0.640 + 0.001 * (i % 9), gy=0.600 + 0.002 * (i % 11))
+            if lots and i % 10 == 0:
+                text += lot_units(i)
         (folder / f"bench-panel-{i:03d}.yaml").write_text(text, encoding="utf-8")
 
 
@@ -75,12 +91,13 @@ def timed(fn):
 def main() -> int:
     from generator.build import build
 
-    n = int(sys.argv[1]) if len(sys.argv) > 1 else 200
+    args = [a for a in sys.argv[1:] if a != "--lots"]
+    n = int(args[0]) if args else 200
     with tempfile.TemporaryDirectory() as tmp:
         tmp = Path(tmp)
         os.chdir(tmp)
         specs, site = tmp / "specs", tmp / "site"
-        write_library(specs, n)
+        write_library(specs, n, lots="--lots" in sys.argv)
         t_clean, s = timed(lambda: build(specs, site, clean=True))
         t_same, s_same = timed(lambda: build(specs, site))
         incs = []

@@ -80,9 +80,11 @@ def test_junit_has_one_suite_per_spec_file_and_one_case_per_row(tmp_path):
     assert len(root.findall("testsuite/testcase/failure")) == n_fail > 0
 
 
-def test_check_does_not_import_matplotlib():
+def test_check_does_not_import_matplotlib_or_any_figure_code():
+    figure_code = ["matplotlib", "generator.render.figures", "generator.render.svgplot", "generator.render.charts",
+                   "generator.render.diagrams", "generator.render.png"]
     code = ("import sys; from generator.cli import main; rc = main(['check', 'specs']); "
-            "print('matplotlib' in sys.modules, rc)")
+            f"print(any(m in sys.modules for m in {figure_code!r}), rc)")
     r = subprocess.run([sys.executable, "-c", code], cwd=ROOT, capture_output=True, text=True, timeout=120)
     assert r.stdout.split() == ["False", "1"], r.stderr
 

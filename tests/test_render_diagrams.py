@@ -8,6 +8,7 @@ import re
 from xml.etree import ElementTree as ET
 
 import numpy as np
+import pytest
 
 from generator.render import figures as F
 from generator.render.swatch import swatch_hex, xy_to_preview_rgb
@@ -64,29 +65,61 @@ def test_saved_svg_carries_title_and_description_for_screen_readers():
     assert root.attrib["role"] == "img"
 
 
+def _marker_steps(d: str) -> str:
+    """The shape of one marker in a marker path: its commands after the first move-to."""
+    return re.split(r"M[-\d.]+,[-\d.]+", d)[1]
+
+
 def test_units_differ_by_marker_shape_as_well_as_colour():
-    _, ax = F.chromaticity_diagram(_layer([("A", (0.64, 0.33), "pass"), ("B", (0.3, 0.6), "fail"),
-                                           ("C", (0.15, 0.06), "indeterminate")]), "xy")
-    marks = {ln.get_label(): (ln.get_marker(), ln.get_markeredgecolor()) for ln in ax.lines
-             if ln.get_label().startswith("unit:")}
-    F.save_svg(ax.figure)
-    assert {m for m, _ in marks.values()} == {"o", "X", "D"}
-    assert len({c for _, c in marks.values()}) == 3
+    fig, _ = F.chromaticity_diagram(_layer([("A", (0.64, 0.33), "pass"), ("B", (0.3, 0.6), "fail"),
+                                            ("C", (0.15, 0.06), "indeterminate")]), "xy")
+    root = ET.fromstring(F.save_svg(fig))
+    marks = {el.get("class"): el for el in root.iter(f"{SVG_NS}path") if (el.get("class") or "").startswith("unit-")}
+    assert set(marks) == {"unit-pass", "unit-fail", "unit-indeterminate"}
+    shapes = {k: _marker_steps(el.get("d")) for k, el in marks.items()}
+    assert shapes["unit-pass"].startswith("a") and shapes["unit-pass"].count("a") == 2   # a circle
+    assert shapes["unit-fail"].count(" ") == 10                                           # an X: 12 corners
+    assert shapes["unit-indeterminate"].count(" ") == 2                                   # a diamond: 4 corners
+    assert marks["unit-pass"].get("fill") == "none"                                       # open circle
+    assert len({el.get("stroke") for el in marks.values()}) == 3
+    legend = [t.text for t in root.iter(f"{SVG_NS}text")]
+    assert {"unit: pass", "unit: fail", "unit: indeterminate"} <= set(legend)
+
+
+def _clip_rect(root, clip_id):
+    r = root.find(f".//{SVG_NS}clipPath[@id='{clip_id}']/{SVG_NS}rect")
+    x, y, w, h = (float(r.get(k)) for k in ("x", "y", "width", "height"))
+    return x, y, x + w, y + h
 
 
 def test_white_closeup_labels_isotherms_and_constant_duv_lines_inside_its_frame():
     layer = F.Layer("w", None, [], (0.3127, 0.3290), [], [("white: circle", F.uv_circle_xy((0.3127, 0.3290), 0.004))],
                     [("U1 white", (0.3131, 0.3288), "pass")])
     fig, ax = F.white_closeup(layer)
-    texts = [t.get_text() for t in ax.texts]
-    x0, x1 = ax.get_xlim()
-    y0, y1 = ax.get_ylim()
-    inside = all(x0 <= t.get_position()[0] <= x1 and y0 <= t.get_position()[1] <= y1 for t in ax.texts)
-    below = len(fig.legends) == 1 and ax.get_legend() is None  # the legend sits below the frame, covering nothing
     svg = F.save_svg(fig)
-    assert "6500 K" in texts and any(t.startswith("Duv +0.005") for t in texts)
-    assert inside and below
+    root = ET.fromstring(svg)
+    x0, y0, x1, y1 = _clip_rect(root, "clip1")
+    assert (x0, y0, x1, y1) == pytest.approx((ax.left, ax.top, ax.right, ax.bottom), abs=0.01)
+    texts = {t.text: (float(t.get("x")), float(t.get("y"))) for t in root.iter(f"{SVG_NS}text")}
+    line_labels = {k: v for k, v in texts.items() if k.endswith(" K") or k.startswith("Duv ")}
+    assert "6500 K" in line_labels and "Duv +0.005" in line_labels
+    assert all(x0 <= x <= x1 and y0 <= y <= y1 for x, y in line_labels.values())
+    legend = root.find(f".//{SVG_NS}g[@class='legend']")
+    entries = [float(t.get("y")) for t in legend.iter(f"{SVG_NS}text")]
+    assert entries and min(entries) > y1  # the legend sits below the frame, covering nothing
     assert "white: circle (to scale)" in svg and "unit: pass" in svg
+
+
+def test_white_closeup_line_labels_do_not_overlap_each_other():
+    layer = F.Layer("w", None, [], (0.3127, 0.3290), [], [], [("U1 white", (0.33, 0.35), "fail")])
+    fig, _ = F.white_closeup(layer, span=0.03)
+    root = ET.fromstring(F.save_svg(fig))
+    boxes = [tuple(float(r.get(k)) for k in ("x", "y", "width", "height")) for r in root.iter(f"{SVG_NS}rect")
+             if r.get("fill-opacity") == "0.85"]
+    assert len(boxes) >= 6
+    for i, (xa, ya, wa, ha) in enumerate(boxes):
+        for xb, yb, wb, hb in boxes[i + 1:]:
+            assert not (xa < xb + wb and xb < xa + wa and ya < yb + hb and yb < ya + ha)
 
 
 def test_white_closeup_reuses_its_figure_without_keeping_the_last_specs_layers():
@@ -159,3 +192,89 @@ def test_clip_path_ids_do_not_depend_on_where_objects_live_in_memory():
     clip_ids = re.findall(r'<clipPath id="([^"]+)"', svg)
     assert clip_ids == [f"clip{n}" for n in range(1, len(clip_ids) + 1)]
     assert all(f"url(#{i})" in svg for i in clip_ids)
+
+
+def test_a_diagram_drawn_after_another_is_byte_identical_to_one_drawn_before_it():
+    a = _layer([("U1 red", (0.63, 0.33), "fail")])
+    b = _layer([("U2 green", (0.31, 0.59), "pass"), ("U3 blue", (0.16, 0.07), "indeterminate")])
+    first = F.save_svg(F.chromaticity_diagram(a, "uv")[0], "t", "d")
+    F.save_svg(F.chromaticity_diagram(b, "uv")[0], "t", "d")
+    assert F.save_svg(F.chromaticity_diagram(a, "uv")[0], "t", "d") == first
+
+
+def test_the_static_frame_is_drawn_once_per_diagram_observer_and_fill():
+    assert F._static("xy", "cie1931-2", True) is F._static("xy", "cie1931-2", True)
+    two, ten = F._static("xy", "cie1931-2", False), F._static("xy", "cie1964-10", False)
+    assert two.fig.body != ten.fig.body  # the 10° locus differs
+    layer = _layer()
+    layer.observer = "cie1964-10"
+    svg = F.save_svg(F.chromaticity_diagram(layer, "xy", fill=False)[0])
+    assert "".join(ten.fig.body) in svg
+
+
+def test_a_point_of_the_layer_lands_where_the_axes_map_it():
+    fig, ax = F.chromaticity_diagram(_layer([("U1", (0.3, 0.6), "fail")]), "xy")
+    root = ET.fromstring(F.save_svg(fig))
+    d = next(p for p in root.iter(f"{SVG_NS}path") if p.get("class") == "unit-fail").get("d")
+    x, y = (float(v) for v in re.match(r"M([-\d.]+),([-\d.]+)", d).groups())
+    cx, cy = ax.px((0.3, 0.6))
+    first = F.S._SHAPES["X"][0] * 5           # the marker path starts at its first corner
+    assert (x, y) == pytest.approx((cx + first[0], cy + first[1]), abs=0.02)
+    # the axes frame: x from -0.04 to 0.8 and y from -0.02 to 0.9 at one scale
+    assert ax.sx == pytest.approx(ax.sy) and ax.px((-0.04, -0.02)).tolist() == pytest.approx([ax.left, ax.bottom])
+
+
+def test_the_legend_of_a_full_diagram_moves_off_units_drawn_where_it_would_go():
+    from generator.colour.convert import uv_prime_to_xy
+
+    # units in the corner each diagram's legend prefers (upper right in xy, lower right in u'v')
+    corner = {"xy": [(0.70 + 0.02 * i, 0.80) for i in range(3)],
+              "uv": [tuple(uv_prime_to_xy(np.array([0.55 + 0.02 * i, 0.06]))) for i in range(3)]}
+    for which, xys in corner.items():
+        units = [(f"U{i}", xy, "fail") for i, xy in enumerate(xys)]
+        fig, ax = F.chromaticity_diagram(_layer(units), which)
+        root = ET.fromstring(F.save_svg(fig))
+        r = root.find(f".//{SVG_NS}g[@class='legend']/{SVG_NS}rect")
+        x, y, w, h = (float(r.get(k)) for k in ("x", "y", "width", "height"))
+        pts = ax.px(F._to(which, np.array(xys + [(0.64, 0.33), (0.3, 0.6), (0.15, 0.06)])))
+        assert not ((pts[:, 0] >= x) & (pts[:, 0] <= x + w) & (pts[:, 1] >= y) & (pts[:, 1] <= y + h)).any(), which
+        assert "unit: fail" in [t.text for t in root.iter(f"{SVG_NS}text")]
+
+
+def test_diagrams_without_units_tolerances_or_targets_still_draw_their_frame():
+    bare = F.Layer("bare", None, [], (0.3127, 0.3290), [], [], [])
+    for fig in (F.white_closeup(bare)[0], F.chromaticity_diagram(F.Layer("none", None, [], None, [], [], []), "uv")[0],
+                F.white_closeup(F.Layer("nan", None, [], (0.3127, 0.3290), [], [], [("U", (np.nan, 0.3), "pass")]))[0]):
+        root = ET.fromstring(F.save_svg(fig))
+        texts = [t.text for t in root.iter(f"{SVG_NS}text")]
+        assert "u'" in texts and "v'" in texts and not any(t.startswith("unit:") for t in texts)
+
+
+def test_target_names_keep_off_each_other_and_the_wavelength_labels():
+    prim = [("red", (0.69, 0.31)), ("status-red", (0.695, 0.305)), ("green", (0.19, 0.71)),
+            ("status-green", (0.185, 0.705)), ("blue", (0.14, 0.07)), ("status-blue", (0.138, 0.075))]
+    layer = F.Layer("labels", None, prim, None, [], [], [])
+    for which in ("xy", "uv"):
+        root = ET.fromstring(F.save_svg(F.chromaticity_diagram(layer, which)[0]))
+        boxes = {}
+        for t in root.iter(f"{SVG_NS}text"):
+            if t.text in dict(prim) or t.text.isdigit() and len(t.text) == 3:
+                boxes[t.text] = F.S.text_box(float(t.get("x")), float(t.get("y")), t.text, float(t.get("font-size")),
+                                             t.get("text-anchor") or "start")
+        names = [n for n, _ in prim]
+        assert set(names) <= set(boxes)
+        for n in names:
+            others = [b for k, b in boxes.items() if k != n]
+            assert not any(F.S._meets(boxes[n], b) for b in others), (which, n)
+
+
+def test_the_observer_is_passed_to_planckian_functions_that_take_it_and_not_to_others():
+    def with_observer(T, duv=0.0, observer="cie1931-2"):
+        return observer
+
+    def without(T, duv=0.0):
+        return None
+
+    assert F._kw(with_observer, "cie1964-10") == {"observer": "cie1964-10"}
+    assert F._kw(without, "cie1964-10") == {}
+    assert np.isfinite(F.planck_uv_prime(np.array([6500.0]), "cie1964-10")).all()

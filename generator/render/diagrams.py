@@ -24,6 +24,7 @@ from ..data.lamp_standards import standard_name as lamp_name
 from ..colour.npm import npm_from_primaries
 from ..colour.volume import lightness_slice
 from ..data import OBSERVERS
+from . import charts as C
 from . import figures as F
 from .pages import fmt
 
@@ -219,9 +220,9 @@ def _draw(which: str, layer, title: str, desc: str) -> str:
     if which == "white":
         fig, _ = F.white_closeup(layer)
     elif which == "spectra":
-        fig, _ = F.spectra_plot(*layer)
+        fig, _ = C.spectra_plot(*layer)
     elif which == "volume":
-        fig, _ = F.volume_slices(*layer)
+        fig, _ = C.volume_slices(*layer)
     else:
         fig, _ = F.chromaticity_diagram(layer, which)
     svg = F.save_svg(fig, title, desc)
@@ -292,7 +293,7 @@ def _volume_figure(e) -> dict | None:
     M = np.array(e.derived.npm)
     white = R @ np.ones(3)
     slices, rows, lines = [], [], []
-    for L in F.VOLUME_LIGHTNESS:
+    for L in C.VOLUME_LIGHTNESS:
         A, B, spec_in = lightness_slice(M, L, white, step=VOLUME_STEP)
         _, _, ref_in = lightness_slice(R, L, white, step=VOLUME_STEP)
         slices.append((L, A, B, spec_in, ref_in))
@@ -302,7 +303,7 @@ def _volume_figure(e) -> dict | None:
                      "verdict": "", "symbol": ""})
         lines.append([f"{L:g}", f"{spec_area:.0f}", f"{ref_area:.0f}", f"{both:.0f}"])
     alt = (f"a*b* outlines of the spec's CIELAB gamut and of {ref.title} at L* "
-           + ", ".join(f"{L:g}" for L in F.VOLUME_LIGHTNESS) + f", both with {ref.title}'s white. "
+           + ", ".join(f"{L:g}" for L in C.VOLUME_LIGHTNESS) + f", both with {ref.title}'s white. "
            "The slice areas are in the table beside it.")
     svg = _draw("volume", (slices, "spec gamut", ref.title), f"{TITLES['volume']}: {spec.title}", alt)
     header = ["L", "spec_area", "reference_area", "common_area"]

@@ -1,36 +1,26 @@
-"""Chromaticity diagrams as deterministic SVG (matplotlib, Agg, no dates, fixed hash salt).
+"""Chromaticity diagrams and the white-point close-up as deterministic, hand-written SVG.
 
-Each plotting function returns (Figure, Axes); ``save_svg`` applies the style and
-returns the SVG text. The caller decides where it goes.
+Each plotting function returns (Figure, Axes) of ``svgplot``; ``save_svg`` gives the SVG
+text with its <title> and <desc>. The static part of a full diagram (locus with its
+approximate colour fill and wavelength labels, Planckian locus, grid, axes) is drawn once
+per diagram kind, observer and fill, and every spec's diagram starts from a copy of it.
 """
 from __future__ import annotations
 
-import io
-import re
-import warnings
+import inspect
 from dataclasses import dataclass
-from functools import cache
+from functools import cache, lru_cache
 
-import matplotlib
+import numpy as np
 
-matplotlib.use("Agg")
-import matplotlib.pyplot as plt  # noqa: E402
-import numpy as np  # noqa: E402
-from matplotlib.patches import Polygon  # noqa: E402
-
-from ..colour.cct import uv_from_cct_duv  # noqa: E402
-from ..colour.convert import uv1960_to_uv_prime, uv1960_to_xy, uv_prime_to_xy, xy_to_uv_prime  # noqa: E402
-from ..colour.planck import planck_uv  # noqa: E402
-from ..colour.spectral import spectral_locus_xy  # noqa: E402
-from .swatch import xy_to_preview_rgb  # noqa: E402
-
-matplotlib.rcParams.update({
-    "svg.hashsalt": "colourspec",
-    "svg.fonttype": "none",
-    "font.family": "DejaVu Sans",
-    "font.size": 9,
-    "axes.linewidth": 0.6,
-})
+from ..colour.cct import uv_from_cct_duv
+from ..colour.convert import uv1960_to_uv_prime, uv1960_to_xy, uv_prime_to_xy, xy_to_uv_prime
+from ..colour.planck import planck_uv
+from ..colour.spectral import spectral_locus_xy
+from . import png
+from . import svgplot as S
+from .svgplot import Key
+from .swatch import xy_to_preview_rgb
 
 # One palette for every figure; verdicts also differ by marker shape.
 PALETTE = {
@@ -38,10 +28,12 @@ PALETTE = {
     "tolerance": "#b3261e", "grid": "#d9d9d9", "pass": "#137333", "fail": "#b3261e",
     "indeterminate": "#8a5a00", "isotherm": "#9a9a9a",
 }
+# Reference gamuts differ by line style and colour: (colour, (offset, dash pattern in line widths)).
 REFERENCE_STYLES = [("#6b6b6b", (0, (5, 2))), ("#8e24aa", (0, (1, 1.5))), ("#00796b", (0, (6, 2, 1, 2))),
                     ("#ad5700", (0, (3, 3))), ("#5c6bc0", (0, (8, 2, 2, 2, 2, 2)))]
-MARKERS = {"pass": "o", "fail": "X", "indeterminate": "D"}
+MARKERS = {"pass": "o", "fail": "X", "indeterminate": "D"}   # circle, X, diamond
 LOCUS_LABELS = (380, 460, 470, 480, 490, 500, 510, 520, 540, 560, 580, 600, 620, 700)
+TEXT_GREY = "#444444"
 
 
 @dataclass
@@ -57,18 +49,26 @@ class Layer:
     observer: str = "cie1931-2"
 
 
-LABEL_CHARS = 120
+@cache
+def _takes_observer(fn) -> bool:
+    try:
+        return "observer" in inspect.signature(fn).parameters
+    except (TypeError, ValueError):
+        return False
 
 
-def plain_text(text: str) -> str:
-    """Spec text as matplotlib draws it literally: '$' would start mathtext (a stray
-    '$\\frac{' raises while saving) and a leading '_' hides a legend entry. The SVG
-    writer escapes <, > and &; this only stops matplotlib from interpreting the text."""
-    text = str(text)
-    if len(text) > LABEL_CHARS:  # the page shows it whole; a legend entry stays readable
-        text = text[: LABEL_CHARS - 1] + "…"
-    text = text.replace("$", r"\$")
-    return "\u200b" + text if text.startswith("_") else text
+def _kw(fn, observer: str) -> dict:
+    """``observer=`` for a colorimetry function that accepts it (the Planckian locus depends
+    on the observer); nothing for one that does not."""
+    return {"observer": observer} if _takes_observer(fn) else {}
+
+
+def planck_uv_prime(T, observer: str = "cie1931-2") -> np.ndarray:
+    return uv1960_to_uv_prime(planck_uv(T, **_kw(planck_uv, observer)))
+
+
+def cct_duv_uv_prime(T, duv, observer: str = "cie1931-2") -> np.ndarray:
+    return uv1960_to_uv_prime(uv_from_cct_duv(T, duv, **_kw(uv_from_cct_duv, observer)))
 
 
 def _to(diagram, xy):
@@ -76,20 +76,23 @@ def _to(diagram, xy):
     return xy if diagram == "xy" else xy_to_uv_prime(xy)
 
 
-def _closed(p):
-    p = np.asarray(p)
-    return np.vstack([p, p[:1]])
-
-
-# Diagram frames, fixed so that figures need no "tight" layout pass (it draws everything twice).
+# Diagram frames, fixed: the static part is the same for every spec.
 _FRAME = {"xy": dict(xlim=(-0.04, 0.8), ylim=(-0.02, 0.9), xlabel="x", ylabel="y"),
           "uv": dict(xlim=(-0.04, 0.66), ylim=(-0.02, 0.64), xlabel="u'", ylabel="v'")}
-FULL_SIZE, FULL_AXES = (5.6, 5.9), (0.11, 0.1, 0.86, 0.85)
+FULL_SIZE = (403.2, 424.8)                 # points (5.6 × 5.9 in)
+FULL_AXES = (0.11, 0.1, 0.86, 0.85)       # left, bottom, width, height as fractions of the figure
 FILL_NOTE = "Fill: approximate colours (sRGB preview), not measured values."
+FILL_PIXELS = 128
+
+
+def _axes_box(size, frac):
+    w, h = size
+    left, bottom, fw, fh = frac
+    return left * w, (1 - bottom - fh) * h, fw * w, fh * h
 
 
 @cache
-def locus_fill(diagram: str, n: int = 128) -> np.ndarray:
+def locus_fill(diagram: str, n: int = FILL_PIXELS) -> np.ndarray:
     """An (n, n, 3) sRGB preview of chromaticities over the diagram's frame (rows from the
     bottom): each point at equal luminance, converted to linear sRGB (IEC 61966-2-1 matrix),
     negative channels clipped (out of gamut), scaled to the brightest channel, encoded and
@@ -102,202 +105,239 @@ def locus_fill(diagram: str, n: int = 128) -> np.ndarray:
     pts = np.stack([gx, gy], axis=-1)
     xy = pts if diagram == "xy" else uv_prime_to_xy(pts)
     rgb = 0.5 * xy_to_preview_rgb(xy) + 0.5
-    return np.round(rgb * 255).astype(np.uint8)
-
-
-def _frame(diagram: str, observer: str, fill: bool):
-    """The static layers of a full diagram: locus (filled or neutral), wavelength labels,
-    Planckian locus, axes and grid."""
-    fig = plt.figure(figsize=FULL_SIZE)
-    ax = fig.add_axes(FULL_AXES)
-    wl, locus = spectral_locus_xy(observer)
-    loc = _to(diagram, locus)
-    f = _FRAME[diagram]
-    if fill:
-        im = ax.imshow(locus_fill(diagram), origin="lower", interpolation="none",
-                       extent=(*f["xlim"], *f["ylim"]), zorder=0)
-        im.set_clip_path(Polygon(loc, closed=True, transform=ax.transData))
-    else:
-        ax.fill(loc[:, 0], loc[:, 1], color="#f4f4f4", zorder=0)
-    ax.plot(*_closed(loc).T, color=PALETTE["locus"], lw=0.9, zorder=2, label="spectral locus")
-    c = loc.mean(axis=0)
-    for w in LOCUS_LABELS:
-        i = int(np.argmin(np.abs(wl - w)))
-        p = loc[i]
-        d = (p - c) / max(np.linalg.norm(p - c), 1e-9)
-        ax.plot(*np.array([p, p + 0.012 * d]).T, color=PALETTE["locus"], lw=0.6)
-        ax.text(*(p + 0.03 * d), f"{w}", ha="center", va="center", fontsize=7, color="#444444")
-    T = np.geomspace(1000, 25000, 80)
-    pl = uv1960_to_uv_prime(planck_uv(T))
-    pl = pl if diagram == "uv" else uv_prime_to_xy(pl)
-    ax.plot(*pl.T, color=PALETTE["planck"], lw=0.8, zorder=3, label="Planckian locus")
-    ax.set(**f)
-    ax.set_aspect("equal")
-    ax.grid(color=PALETTE["grid"], lw=0.4)
-    if fill:
-        fig.text(0.11, 0.012, FILL_NOTE, fontsize=7,
-                 color="#444444")
-    return fig, ax
+    a = np.round(rgb * 255).astype(np.uint8)
+    a.setflags(write=False)
+    return a
 
 
 @cache
-def _static_svg(diagram: str, observer: str, fill: bool) -> str:
-    """The static layers saved once per diagram, observer and fill: the text-heavy part
-    (ticks, wavelength labels) that would otherwise be laid out again for every spec."""
-    fig, _ = _frame(diagram, observer, fill)
-    buf = io.StringIO()
-    fig.savefig(buf, format="svg", metadata={"Date": None, "Creator": None})
-    plt.close(fig)
-    return buf.getvalue()
+def _fill_uri(diagram: str) -> str:
+    return png.data_uri(locus_fill(diagram)[::-1])
 
 
-_OVERLAYS: dict = {}
+@dataclass(frozen=True)
+class _Static:
+    fig: S.Figure
+    ax: S.Axes
+    clip: str                    # id of the axes' clip path
+    avoid: np.ndarray            # figure points the legend should not cover (locus, Planckian locus)
+    label_boxes: tuple           # boxes of the wavelength labels, which target labels keep off
 
 
-def _overlay(diagram: str):
-    """A transparent figure with the frame's geometry and no axis decorations, reused for
-    every spec's own layers."""
-    if diagram not in _OVERLAYS:
-        fig = plt.figure(figsize=FULL_SIZE)
-        fig.patch.set_alpha(0)
-        ax = fig.add_axes(FULL_AXES)
-        ax.set(**_FRAME[diagram])
-        ax.set_aspect("equal")
-        ax.set_axis_off()
-        _OVERLAYS[diagram] = (fig, ax)
-    return _OVERLAYS[diagram]
+@cache
+def _static(diagram: str, observer: str, fill: bool) -> _Static:
+    """The static layers of a full diagram: locus (filled or neutral), grid, wavelength
+    labels, Planckian locus, axes; drawn once per diagram, observer and fill."""
+    f = _FRAME[diagram]
+    fig = S.Figure(*FULL_SIZE)
+    ax = S.Axes(_axes_box(FULL_SIZE, FULL_AXES), f["xlim"], f["ylim"], equal=True)
+    clip = fig.clip_rect(ax)
+    wl, locus = spectral_locus_xy(observer)
+    loc = _to(diagram, locus)
+    loc_px = ax.px(loc)
+    if fill:
+        lc = fig.clip_path(loc_px)
+        fig.add(f'<g clip-path="url(#{lc})"><image x="{S.num(ax.left)}" y="{S.num(ax.top)}"'
+                f' width="{S.num(ax.width)}" height="{S.num(ax.height)}" preserveAspectRatio="none"'
+                f' xlink:href="{_fill_uri(diagram)}"/></g>\n')
+    else:
+        fig.add(S.line(loc_px, "none", 0, closed=True, fill="#f4f4f4", clip=clip))
+    xt, xd = S.nice_ticks(*f["xlim"], max_ticks=10)
+    yt, yd = S.nice_ticks(*f["ylim"], max_ticks=10)
+    fig.add(S.grid(ax, xt, yt, PALETTE["grid"]))
+    fig.add(S.line(loc_px, PALETTE["locus"], 0.9, closed=True, clip=clip))
+    c = loc.mean(axis=0)
+    ticks, labels, boxes = [], [], []
+    for w in LOCUS_LABELS:
+        p = loc[int(np.argmin(np.abs(wl - w)))]
+        d = (p - c) / max(np.linalg.norm(p - c), 1e-9)
+        ticks.append(ax.px(np.array([p, p + 0.012 * d])))
+        q = ax.px(p + 0.03 * d)
+        labels.append(S.text(q[0], q[1], f"{w}", 7, TEXT_GREY, anchor="middle", va="center"))
+        boxes.append(S.text_box(q[0], q[1], f"{w}", 7, "middle", "center"))
+    fig.add(f'<path d="{"".join(S.path_d(t) for t in ticks)}" stroke="{PALETTE["locus"]}" stroke-width="0.6"/>\n',
+            *labels)
+    pl = planck_uv_prime(np.geomspace(1000, 25000, 80), observer)
+    pl_px = ax.px(pl if diagram == "uv" else uv_prime_to_xy(pl))
+    fig.add(S.line(pl_px, PALETTE["planck"], 0.8, clip=clip))
+    fig.add(S.frame(ax, xt, yt, f["xlabel"], f["ylabel"], xd, yd))
+    if fill:
+        fig.add(S.text(FULL_AXES[0] * FULL_SIZE[0], FULL_SIZE[1] * (1 - 0.012), FILL_NOTE, 7, TEXT_GREY))
+    return _Static(fig, ax, clip, np.vstack([loc_px, pl_px]), tuple(boxes))
 
 
-class _Drawn:
-    """Artists added to a reused overlay for one spec; removed once its SVG is saved."""
-
-    def __init__(self, fig, ax, base_svg: str):
-        self.fig, self.ax, self.base_svg = fig, ax, base_svg
-        self.base = (list(ax.lines), list(ax.texts), list(ax.patches), list(ax.collections))
-
-    def clear(self):
-        ax = self.ax
-        for group, base in zip((ax.lines, ax.texts, ax.patches, ax.collections), self.base, strict=True):
-            for a in [a for a in group if a not in base]:
-                a.remove()
-        if ax.get_legend() is not None:
-            ax.get_legend().remove()
-        for a in list(self.fig.legends) + list(self.fig.texts):
-            a.remove()
+def _densify(px, closed: bool, step: float = 4.0) -> np.ndarray:
+    """Points along a polyline at most ``step`` apart (for the legend's placement)."""
+    px = np.asarray(px, dtype=float).reshape(-1, 2)
+    if closed and len(px) > 1:
+        px = np.vstack([px, px[:1]])
+    out = [px[:1]]
+    for a, b in zip(px[:-1], px[1:], strict=True):
+        n = max(1, int(np.ceil(np.hypot(*(b - a)) / step)))
+        out.append(a + (b - a) * (np.arange(1, n + 1)[:, None] / n))
+    return np.vstack(out)
 
 
-_ID = re.compile(r'(id="|url\(#|xlink:href="#)([A-Za-z_][\w.-]*)')
+LEGEND_FONT = 7.0
+_CORNERS = {"xy": ("upper right", "lower right", "upper left", "lower left"),
+            "uv": ("lower right", "upper right", "lower left", "upper left")}
 
 
-def _compose(base: str, overlay: str) -> str:
-    """Put the overlay's drawing on top of the base SVG (same size and axes geometry); the
-    overlay's ids are prefixed so that none collides with the base's."""
-    overlay = _ID.sub(lambda m: m.group(1) + "o-" + m.group(2), overlay)
-    body = overlay[re.search(r"<svg\b[^>]*>", overlay).end(): overlay.rindex("</svg>")]
-    body = re.sub(r"<metadata>.*?</metadata>", "", body, flags=re.S)
-    return base[: base.rindex("</svg>")] + body.strip("\n") + "\n</svg>\n"
+def _corner(ax: S.Axes, where: str, size, pad: float = 3.5):
+    w, h = size
+    x = ax.right - pad - w if where.endswith("right") else ax.left + pad
+    y = ax.top + pad if where.startswith("upper") else ax.bottom - pad - h
+    return x, y
+
+
+def unit_keys(units) -> list[Key]:
+    """Legend entries of the verdicts drawn (a unit without a finite point draws nothing)."""
+    present = {v for _, xy, v in units if np.isfinite(np.asarray(xy, dtype=float)).all()}
+    return [Key(f"unit: {v}", marker=MARKERS[v], marker_size=5, marker_fill="none" if v == "pass" else PALETTE[v],
+                marker_stroke=PALETTE[v]) for v in ("pass", "indeterminate", "fail") if v in present]
+
+
+def draw_units(fig: S.Figure, ax: S.Axes, units, to_px, clip: str) -> np.ndarray:
+    """Measured units by verdict, each verdict its own shape and colour; their figure points."""
+    drawn = []
+    for verdict in ("pass", "indeterminate", "fail"):
+        pts = [xy for _, xy, v in units if v == verdict]
+        if pts:
+            px = to_px(np.array(pts, dtype=float))
+            fill = "none" if verdict == "pass" else PALETTE[verdict]
+            fig.add(S.markers(px, MARKERS[verdict], 5, fill, PALETTE[verdict], 1.0, clip=clip, cls=f"unit-{verdict}"))
+            drawn.append(px)
+    return np.vstack(drawn) if drawn else np.zeros((0, 2))
 
 
 def chromaticity_diagram(layer: Layer, diagram: str, fill: bool = True):
-    """The full diagram in CIE 1931 xy (``diagram='xy'``) or CIE 1976 u'v' (``'uv'``).
+    """The full diagram in CIE 1931 xy (``diagram='xy'``) or CIE 1976 u'v' (``'uv'``): a copy
+    of the static frame with the spec's layers, title and legend drawn on it."""
+    st = _static(diagram, layer.observer, fill)
+    fig, ax, clip = st.fig.copy(), st.ax, st.clip
 
-    The static layers (locus, its fill and wavelength labels, Planckian locus, axes) are
-    drawn once (``_static_svg``); this draws the spec's layers on a transparent overlay
-    of the same geometry, and ``save_svg`` composes the two. Call ``save_svg`` on the
-    result before drawing the next diagram of the same kind."""
-    fig, ax = _overlay(diagram)
-    fig._colourspec_drawn = _Drawn(fig, ax, _static_svg(diagram, layer.observer, fill))
+    def to_px(xy):
+        return ax.px(_to(diagram, xy))
+
+    keys = [Key("spectral locus", PALETTE["locus"], 0.9), Key("Planckian locus", PALETTE["planck"], 0.8)]
+    lines, points = [], []
     for i, (title, hull) in enumerate(layer.references):
         colour, dash = REFERENCE_STYLES[i % len(REFERENCE_STYLES)]
-        ax.plot(*_closed(_to(diagram, hull)).T, color=colour, ls=dash, lw=1.1, zorder=4, label=plain_text(title))
+        px = to_px(hull)
+        fig.add(S.line(px, colour, 1.1, dash, clip=clip, closed=True))
+        keys.append(Key(title, colour, 1.1, dash))
+        lines.append(_densify(px, True))
     if layer.gamut_xy is not None:
-        g = _to(diagram, layer.gamut_xy)
-        ax.plot(*_closed(g).T, color=PALETTE["gamut"], lw=1.8, zorder=5, label="spec gamut")
-    for i, (_label, poly) in enumerate(layer.tolerances):
-        ax.plot(*_closed(_to(diagram, poly)).T, color=PALETTE["tolerance"], lw=0.8, zorder=6,
-                label="tolerance regions (to scale)" if i == 0 else "_nolegend_")
-    for name, xy in layer.primaries:
-        p = _to(diagram, xy)
-        ax.plot(*p, marker="+", color=PALETTE["target"], ms=8, zorder=7)
-        ax.annotate(plain_text(name), p, xytext=(5, 5), textcoords="offset points", fontsize=8, zorder=8)
+        px = to_px(layer.gamut_xy)
+        fig.add(S.line(px, PALETTE["gamut"], 1.8, clip=clip, closed=True))
+        keys.append(Key("spec gamut", PALETTE["gamut"], 1.8))
+        lines.append(_densify(px, True))
+    for _label, poly in layer.tolerances:
+        px = to_px(poly)
+        fig.add(S.line(px, PALETTE["tolerance"], 0.8, clip=clip, closed=True))
+        points.append(px)
+    if layer.tolerances:
+        keys.append(Key("tolerance regions (to scale)", PALETTE["tolerance"], 0.8))
+    if layer.primaries:
+        px = to_px(np.array([xy for _, xy in layer.primaries], dtype=float))
+        fig.add(S.markers(px, "+", 8, "none", PALETTE["target"], 1.0, clip=clip))
+        points.append(px)
     if layer.white_xy is not None:
-        ax.plot(*_to(diagram, layer.white_xy), marker="*", color=PALETTE["target"], ms=9, zorder=7,
-                label="white target", ls="none")
-    _units(ax, layer.units, lambda xy: _to(diagram, xy))
-    fig.text(FULL_AXES[0] + FULL_AXES[2] / 2, 0.975, plain_text(layer.title), fontsize=10, ha="center", va="top")
-    ax.legend(handles=_static_handles() + ax.get_legend_handles_labels()[0],
-              loc="upper right" if diagram == "xy" else "lower right", fontsize=7, frameon=True,
-              framealpha=0.92)
+        px = to_px(np.array([layer.white_xy], dtype=float))
+        fig.add(S.markers(px, "*", 9, PALETTE["target"], PALETTE["target"], 0.6, clip=clip))
+        keys.append(Key("white target", marker="*", marker_size=9, marker_fill=PALETTE["target"],
+                        marker_stroke=PALETTE["target"]))
+        points.append(px)
+    points.append(draw_units(fig, ax, layer.units, to_px, clip))
+    keys += unit_keys(layer.units)
+    fig.add(S.text((FULL_AXES[0] + FULL_AXES[2] / 2) * FULL_SIZE[0], 0.025 * FULL_SIZE[1], S.shorten(layer.title),
+                   10, anchor="middle", va="top", max_width=FULL_SIZE[0] - 20))
+    size = S.legend_size(keys, LEGEND_FONT, max_width=ax.width - 7)
+    avoid = [st.avoid, *lines, *points]
+    weights = [np.ones(len(st.avoid))] + [np.ones(len(p)) for p in lines] + [np.full(len(p), 25.0) for p in points]
+    box = S.place_legend([_corner(ax, c, size) for c in _CORNERS[diagram]], size, np.vstack(avoid),
+                         np.concatenate(weights))
+    fig.add(S.legend(keys, box, LEGEND_FONT))
+    if layer.primaries:
+        _target_labels(fig, ax, layer.primaries, to_px, [*st.label_boxes, (box.x, box.y, box.x + box.width,
+                                                                           box.y + box.height)], np.vstack(points))
     return fig, ax
 
 
-def _static_handles():
-    from matplotlib.lines import Line2D
+TARGET_LABEL = 8.0
+# offsets (points) and alignment of a target's name around its mark, in order of preference
+_AROUND = ((5, -5, "start", "baseline"), (5, 5, "start", "top"), (-5, -5, "end", "baseline"), (-5, 5, "end", "top"),
+           (0, -7, "middle", "baseline"), (0, 7, "middle", "top"), (7, 0, "start", "center"), (-7, 0, "end", "center"))
 
-    return [Line2D([], [], color=PALETTE["locus"], lw=0.9, label="spectral locus"),
-            Line2D([], [], color=PALETTE["planck"], lw=0.8, label="Planckian locus")]
 
-
-def _units(ax, units, tf):
-    for verdict in ("pass", "indeterminate", "fail"):
-        pts = [tf(xy) for _, xy, v in units if v == verdict]
-        if pts:
-            pts = np.array(pts)
-            ax.plot(pts[:, 0], pts[:, 1], ls="none", marker=MARKERS[verdict], ms=5,
-                    mfc="none" if verdict == "pass" else PALETTE[verdict], mec=PALETTE[verdict],
-                    zorder=9, label=f"unit: {verdict}")
+def _target_labels(fig, ax, targets, to_px, taken, points) -> None:
+    """Each target's name beside its mark: up and to the right where that is free, else at the
+    first of the other places around it (near, then farther) that meets no other label, the
+    wavelength labels or the legend, and covers no drawn point."""
+    taken = list(taken)
+    bounds = (ax.left, ax.top, ax.right, ax.bottom)
+    px = to_px(np.array([xy for _, xy in targets], dtype=float))
+    for (name, _), (x, y) in zip(targets, px.tolist(), strict=True):
+        s = S.shorten(name)
+        cands = [(x + k * dx, y + k * dy, anchor, va) for k in (1, 2.5)
+                 for dx, dy, anchor, va in _AROUND]
+        found = S.free_place(cands, s, TARGET_LABEL, taken, points, bounds)
+        (cx, cy, anchor, va), b = found if found is not None else (cands[0], S.text_box(*cands[0][:2], s, TARGET_LABEL))
+        taken.append(b)
+        fig.add(S.text(cx, cy, s, TARGET_LABEL, anchor=anchor, va=va))
 
 
 TOLERANCE_DASHES = ("-", (0, (4, 2)), (0, (1, 1.5)))
 ISOTHERMS_K = (2000, 2500, 2700, 3000, 3500, 4000, 4500, 5000, 5700, 6500, 7500, 9300, 12000, 20000)
 DUV_LINES = (-0.02, -0.01, -0.005, 0.005, 0.01, 0.02)
-_LABEL_BOX = {"boxstyle": "round,pad=0.15", "fc": "white", "ec": "none", "alpha": 0.85}
+WHITE_SIZE = (403.2, 352.8)               # points (5.6 × 4.9 in)
+WHITE_AXES = (0.13, 0.25, 0.84, 0.69)
+LINE_LABEL = 6.5
 
 
 @cache
-def _white_lines():
+def _white_lines(observer: str = "cie1931-2"):
     """Planckian locus, lines of constant Duv and isotherms in u'v': the same for every
     close-up, and costly (each point integrates Planck's law over the observer)."""
     T = np.geomspace(1000, 100000, 400)
-    duv = {d: uv1960_to_uv_prime(uv_from_cct_duv(T, d)) for d in DUV_LINES}
-    iso = {t: uv1960_to_uv_prime(uv_from_cct_duv(np.full(41, float(t)), np.linspace(-0.03, 0.03, 41)))
-           for t in ISOTHERMS_K}
-    return uv1960_to_uv_prime(planck_uv(T)), duv, iso
+    duv = {d: cct_duv_uv_prime(T, d, observer) for d in DUV_LINES}
+    iso = {t: cct_duv_uv_prime(np.full(41, float(t)), np.linspace(-0.03, 0.03, 41), observer) for t in ISOTHERMS_K}
+    return planck_uv_prime(T, observer), duv, iso
 
 
-_WHITE: list = []
-
-
-def _white_figure():
-    """One figure reused for every close-up (its axis and tick objects are kept; each
-    spec's artists are removed after saving)."""
-    if not _WHITE:
-        fig = plt.figure(figsize=(5.6, 4.9))
-        ax = fig.add_axes((0.13, 0.25, 0.84, 0.69))
-        ax.set_aspect("equal")
-        ax.grid(color=PALETTE["grid"], lw=0.4)
-        ax.locator_params(nbins=6)
-        _WHITE.append((fig, ax))
-    return _WHITE[0]
+def _place_labels(fig, ax, labels, data_px) -> None:
+    """Each line label at the first of its candidate points (figure coordinates, best first)
+    where its box stays inside the axes, meets no label placed before it and covers none of
+    ``data_px`` (units, target, tolerance outlines); failing that where it only covers data."""
+    taken = []
+    bounds = (ax.left, ax.top, ax.right, ax.bottom)
+    for cands, s, va in labels:
+        found = S.free_place([(x, y, "middle", va) for x, y in cands], s, LINE_LABEL, taken, data_px, bounds, 1.2)
+        if found is not None:
+            (x, y, _, _), box = found
+            taken.append(box)
+            fig.add(S.label_box(x, y, s, LINE_LABEL, va=va), S.text(x, y, s, LINE_LABEL, "#333333", anchor="middle",
+                                                                   va=va))
 
 
 def white_closeup(layer: Layer, span: float = 0.02):
     """The white target in CIE 1976 u'v' with the Planckian locus, isotherms and lines of
     constant Duv (CIE 1960 uv distances, drawn in u'v'). Lines are labelled inside the
     frame; the legend sits below it so that it covers nothing."""
-    fig, ax = _white_figure()
-    fig._colourspec_drawn = _Drawn(fig, ax, "")
-    w = xy_to_uv_prime(np.array(layer.white_xy))
-    pts = [w] + [xy_to_uv_prime(np.array(xy)) for _, xy, _ in layer.units]
-    for _, poly in layer.tolerances:
-        pts += list(xy_to_uv_prime(np.asarray(poly)))
-    pts = np.array(pts)
+    w = xy_to_uv_prime(np.array(layer.white_xy, dtype=float))
+    pts = [w[None], xy_to_uv_prime(np.array([xy for _, xy, _ in layer.units], dtype=float).reshape(-1, 2))]
+    pts += [xy_to_uv_prime(np.asarray(poly, dtype=float)) for _, poly in layer.tolerances]
+    pts = np.vstack(pts)
+    pts = pts[np.isfinite(pts).all(axis=1)]
     half = max(span, float(np.max(np.abs(pts - w))) * 1.25)
     x0, x1, y0, y1 = w[0] - half, w[0] + half, w[1] - half * 0.8, w[1] + half * 0.8
+    fig = S.Figure(*WHITE_SIZE)
+    ax = S.Axes(_axes_box(WHITE_SIZE, WHITE_AXES), (x0, x1), (y0, y1), equal=True)
+    clip = fig.clip_rect(ax)
 
     def within(line, m):
         mx, my = m * 2 * half, m * 1.6 * half
-        return ((line[:, 0] > x0 + mx) & (line[:, 0] < x1 - mx) & (line[:, 1] > y0 + my) & (line[:, 1] < y1 - my))
+        return (line[:, 0] > x0 + mx) & (line[:, 0] < x1 - mx) & (line[:, 1] > y0 + my) & (line[:, 1] < y1 - my)
 
     def visible_part(line):
         """The line's points in the frame and one beyond on each side (None if it misses it)."""
@@ -307,110 +347,61 @@ def white_closeup(layer: Layer, span: float = 0.02):
         keep = keep | np.roll(keep, 1) | np.roll(keep, -1)
         return line[keep]
 
-    pl, duv_lines, isotherms = _white_lines()
+    xt, xd = S.nice_ticks(x0, x1, max_ticks=7)
+    yt, yd = S.nice_ticks(y0, y1, max_ticks=7)
+    fig.add(S.grid(ax, xt, yt, PALETTE["grid"]))
+    pl, duv_lines, isotherms = _white_lines(layer.observer)
+    labels = []
     for duv, line in duv_lines.items():
         part = visible_part(line)
         if part is None:
             continue
-        ax.plot(*part.T, color=PALETTE["isotherm"], lw=0.7, ls=(0, (2, 2)), zorder=1)
-        vis = line[within(line, 0.04)]
-        if len(vis):  # label where the line leaves the frame at the bottom
-            p = vis[np.argmin(vis[:, 1])]
-            ax.text(*p, f"Duv {duv:+.3f}", fontsize=6.5, color="#333333", ha="center", va="bottom",
-                    zorder=4, bbox=_LABEL_BOX)
-    ax.plot(*visible_part(pl).T if visible_part(pl) is not None else ([], []), color=PALETTE["planck"], lw=1.2,
-            label="Planckian locus (Duv 0)", zorder=2)
-    label = "isotherms (CCT) and lines of constant Duv"
+        fig.add(S.line(ax.px(part), PALETTE["isotherm"], 0.7, (0, (2, 2)), clip=clip))
+        vis = line[within(line, 0.03)]
+        if len(vis):  # label where the line leaves the frame at the bottom, else higher up along it
+            labels.append((ax.px(vis[np.argsort(vis[:, 1], kind="stable")]).tolist(), f"Duv {duv:+.3f}", "bottom"))
+    keys = []
+    part = visible_part(pl)
+    if part is not None:
+        fig.add(S.line(ax.px(part), PALETTE["planck"], 1.2, clip=clip))
+    keys.append(Key("Planckian locus (Duv 0)", PALETTE["planck"], 1.2))
+    iso_key = False
     for t, iso in isotherms.items():
         if visible_part(iso) is None:
             continue
-        ax.plot(*iso.T, color=PALETTE["isotherm"], lw=0.7, zorder=1, label=label)
-        label = "_nolegend_"
-        vis = iso[within(iso, 0.04)]
-        if len(vis):  # label at the isotherm's highest visible point
-            p = vis[np.argmax(vis[:, 1])]
-            ax.text(*p, f"{t} K", fontsize=6.5, color="#333333", ha="center", va="top", zorder=4,
-                    bbox=_LABEL_BOX)
+        fig.add(S.line(ax.px(iso), PALETTE["isotherm"], 0.7, clip=clip))
+        iso_key = True
+        vis = iso[within(iso, 0.03)]
+        if len(vis):  # label at the isotherm's highest visible point, else lower down along it
+            labels.append((ax.px(vis[np.argsort(-vis[:, 1], kind="stable")]).tolist(), f"{t} K", "top"))
+    if iso_key:
+        keys.append(Key("isotherms (CCT) and lines of constant Duv", PALETTE["isotherm"], 0.7))
+    data = [ax.px(w[None]), ax.px(xy_to_uv_prime(np.array([xy for _, xy, _ in layer.units], dtype=float)
+                                                  .reshape(-1, 2)))]
+    data += [_densify(ax.px(xy_to_uv_prime(np.asarray(poly, dtype=float))), True, 3.0) for _, poly in layer.tolerances]
+    _place_labels(fig, ax, labels, np.vstack(data))
     for i, (label, poly) in enumerate(layer.tolerances):
-        ax.plot(*_closed(xy_to_uv_prime(np.asarray(poly))).T, color=PALETTE["tolerance"], lw=1.1,
-                ls=TOLERANCE_DASHES[i % len(TOLERANCE_DASHES)], zorder=3, label=f"{plain_text(label)} (to scale)")
-    ax.plot(*w, marker="*", color=PALETTE["target"], ms=11, ls="none", zorder=5, label="white target")
-    _units(ax, layer.units, lambda xy: xy_to_uv_prime(np.array(xy)))
-    ax.set(xlim=(x0, x1), ylim=(y0, y1), xlabel="u'", ylabel="v'")
-    fig.text(0.55, 0.985, plain_text(layer.title), fontsize=10, ha="center", va="top")
-    fig.legend(*ax.get_legend_handles_labels(), loc="lower center", ncols=2, fontsize=7, frameon=False)
+        dash = TOLERANCE_DASHES[i % len(TOLERANCE_DASHES)]
+        fig.add(S.line(ax.px(xy_to_uv_prime(np.asarray(poly, dtype=float))), PALETTE["tolerance"], 1.1, dash,
+                       clip=clip, closed=True))
+        keys.append(Key(f"{S.shorten(label)} (to scale)", PALETTE["tolerance"], 1.1, dash))
+    fig.add(S.markers(ax.px(w[None]), "*", 11, PALETTE["target"], PALETTE["target"], 0.6, clip=clip))
+    keys.append(Key("white target", marker="*", marker_size=11, marker_fill=PALETTE["target"],
+                    marker_stroke=PALETTE["target"]))
+    draw_units(fig, ax, layer.units, lambda xy: ax.px(xy_to_uv_prime(xy)), clip)
+    keys += unit_keys(layer.units)
+    fig.add(S.frame(ax, xt, yt, "u'", "v'", xd, yd))
+    fig.add(S.text(0.55 * WHITE_SIZE[0], 0.015 * WHITE_SIZE[1], S.shorten(layer.title), 10, anchor="middle",
+                   va="top", max_width=WHITE_SIZE[0] - 20))
+    lw, lh = S.legend_size(keys, LEGEND_FONT, ncols=2, max_width=WHITE_SIZE[0] - 20)
+    top = ax.bottom + 36
+    fig.add(S.legend(keys, S.LegendBox((WHITE_SIZE[0] - lw) / 2, top, lw, lh), LEGEND_FONT, ncols=2, frame=False))
     return fig, ax
 
 
-def histogram(values, lo, hi, guard, title: str, xlabel: str, bins: int = 30):
-    """Histogram of one quantity over a lot with its limits (solid) and, where a guard band
-    applies, the acceptance limits narrowed by it (dashed)."""
-    v = np.asarray(values, dtype=float)
-    v = v[np.isfinite(v)]
-    fig, ax = plt.subplots(figsize=(5.2, 2.8))
-    edges = [x for x in (lo, hi) if x is not None]
-    span = np.concatenate([v, edges]) if v.size or edges else np.zeros(1)
-    a, b = float(span.min()), float(span.max())
-    pad = (b - a) * 0.08 or max(abs(a) * 0.01, 1e-6)
-    ax.hist(v, bins=np.linspace(a - pad, b + pad, bins + 1), color="#9bb7e6", edgecolor="#0b57d0", lw=0.5,
-            label=f"units (n = {v.size})")
-    for x, name in ((lo, "lower limit"), (hi, "upper limit")):
-        if x is not None:
-            ax.axvline(x, color=PALETTE["tolerance"], lw=1.4, label=name)
-    if guard:
-        for x, sign in ((lo, 1), (hi, -1)):
-            if x is not None:
-                ax.axvline(x + sign * guard, color=PALETTE["tolerance"], lw=0.9, ls="--",
-                           label="acceptance limit (limit − U)" if sign < 0 else "acceptance limit (limit + U)")
-    ax.set(xlabel=xlabel, ylabel="units")
-    ax.set_title(title, fontsize=9)
-    ax.grid(color=PALETTE["grid"], lw=0.4)
-    ax.legend(fontsize=6.5, frameon=True, loc="best")
-    fig.tight_layout()
-    return fig, ax
-
-
-def _xml(text: str) -> str:
-    return text.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;").replace('"', "&quot;")
-
-
-_CLIP_ID = re.compile(r'<clipPath id="((?:o-)?p[0-9a-f]{10})"')
-
-
-def _stable_ids(svg: str) -> str:
-    """Clip-path ids numbered in order of definition. matplotlib derives the id of a clip
-    path set on an artist from the object's memory address, which differs between runs."""
-    for n, old in enumerate(dict.fromkeys(_CLIP_ID.findall(svg)), start=1):
-        svg = svg.replace(f'id="{old}"', f'id="clip{n}"').replace(f"url(#{old})", f"url(#clip{n})")
-    return svg
-
-
-def save_svg(fig, title: str = "", desc: str = "") -> str:
-    """The figure as SVG text, with a <title> and <desc> for screen readers when given. A
-    figure drawn on a cached frame has its spec's layers removed afterwards."""
-    buf = io.StringIO()
-    with warnings.catch_warnings():
-        # text is written as SVG text (svg.fonttype none) and drawn by the reader's fonts, so a
-        # character missing from the layout font (CJK in a title) only affects spacing
-        warnings.filterwarnings("ignore", message=r"Glyph \d+ .* missing from font", category=UserWarning)
-        fig.savefig(buf, format="svg", metadata={"Date": None, "Creator": None})
-    svg = buf.getvalue()
-    drawn = getattr(fig, "_colourspec_drawn", None)
-    if drawn is not None:
-        drawn.clear()
-        fig._colourspec_drawn = None
-        if drawn.base_svg:
-            svg = _compose(drawn.base_svg, svg)
-    else:
-        plt.close(fig)
-    svg = _stable_ids(svg)
-    if title or desc:
-        m = re.search(r"<svg\b[^>]*>", svg)
-        head = svg[: m.end()]
-        head = head[:-1] + ' role="img" aria-labelledby="fig-title fig-desc">'
-        svg = (head + f'\n <title id="fig-title">{_xml(title)}</title>\n <desc id="fig-desc">{_xml(desc)}</desc>'
-               + svg[m.end():])
-    return svg
+def save_svg(fig: S.Figure, title: str = "", desc: str = "") -> str:
+    """The figure as SVG text, with a <title> and <desc> for screen readers when given."""
+    return fig.to_svg(title, desc)
 
 
 def uv_circle_xy(centre_xy, radius_uv, n: int = 72):
@@ -434,8 +425,14 @@ def box_xy(centre_xy, dx, dy):
 
 
 def cct_duv_quad_xy(cct, duv, n: int = 24):
-    """The CCT x Duv quadrangle: isotherm edges and constant-Duv edges, in xy."""
+    """The CCT x Duv quadrangle: isotherm edges and constant-Duv edges, in xy (a copy of the
+    one computed for the same limits: each of its points integrates Planck's law)."""
     (t0, t1), (d0, d1) = cct, duv
+    return _cct_duv_quad(*(None if v is None else float(v) for v in (t0, t1, d0, d1)), n).copy()
+
+
+@lru_cache(maxsize=256)
+def _cct_duv_quad(t0, t1, d0, d1, n):
     t0 = t0 if t0 is not None else 1000.0
     t1 = t1 if t1 is not None else 25000.0
     d0 = d0 if d0 is not None else -0.02
@@ -444,61 +441,3 @@ def cct_duv_quad_xy(cct, duv, n: int = 24):
     lower = uv_from_cct_duv(T, d0)
     upper = uv_from_cct_duv(T[::-1], d1)
     return uv1960_to_xy(np.vstack([lower, upper]))
-
-
-SPECTRUM_COLOURS = ("#0b57d0", "#137333", "#b3261e", "#6b6b6b", "#8e24aa", "#00796b", "#ad5700", "#5c6bc0")
-
-
-def spectra_plot(series, observer_title: str):
-    """Spectra normalised to their own peak: ``series`` of (label, wavelengths, values,
-    is_unit); design spectra solid, measured units thin and dashed."""
-    fig, ax = plt.subplots(figsize=(7.2, 3.6))
-    design = [s for s in series if not s[3]]
-    colour_of = {label: SPECTRUM_COLOURS[i % len(SPECTRUM_COLOURS)] for i, (label, *_rest) in enumerate(design)}
-    k = len(design)
-    for label, wl, v, is_unit in series:
-        v = np.asarray(v, dtype=float)
-        peak = np.nanmax(v)
-        if not peak > 0:
-            continue
-        c = colour_of.get(label.split(" ", 1)[-1]) if is_unit else colour_of[label]
-        if c is None:
-            c = SPECTRUM_COLOURS[k % len(SPECTRUM_COLOURS)]
-            k += 1
-        ax.plot(wl, v / peak, color=c, lw=0.7 if is_unit else 1.5, ls=(0, (3, 2)) if is_unit else "-",
-                label=None if is_unit else plain_text(label), zorder=2 if is_unit else 3)
-    if any(s[3] for s in series):
-        ax.plot([], [], color="#444444", lw=0.7, ls=(0, (3, 2)), label="measured units")
-    ax.set(xlim=(360, 830), ylim=(0, 1.08), xlabel="wavelength (nm)", ylabel="relative to own peak")
-    ax.grid(color=PALETTE["grid"], lw=0.4)
-    ax.set_title(plain_text(f"Spectra ({observer_title} used to integrate them)"), fontsize=10)
-    ax.legend(loc="upper right", fontsize=7, frameon=True)
-    return fig, ax
-
-
-VOLUME_LIGHTNESS = (15.0, 30.0, 45.0, 60.0, 75.0, 90.0)
-
-
-def volume_slices(slices, spec_label: str, reference_label: str):
-    """Cross-sections of two CIELAB gamut solids at fixed lightness: ``slices`` of
-    (L, A, B, inside_spec, inside_reference) grids, drawn as a*b* outlines."""
-    fig, axes = plt.subplots(2, 3, figsize=(7.8, 5.4), sharex=True, sharey=True)
-    for ax, (L, A, B, spec_in, ref_in) in zip(axes.ravel(), slices, strict=True):
-        for mask, colour, ls in ((ref_in, "#6b6b6b", (0, (4, 2))), (spec_in, PALETTE["gamut"], "-")):
-            if mask.any() and not mask.all():
-                ax.contour(A, B, mask.astype(float), levels=[0.5], colors=[colour], linestyles=[ls],
-                           linewidths=1.2)
-        ax.axhline(0, color=PALETTE["grid"], lw=0.5)
-        ax.axvline(0, color=PALETTE["grid"], lw=0.5)
-        ax.set_title(f"L* = {L:g}", fontsize=8)
-        ax.set_aspect("equal")
-    for ax in axes[-1]:
-        ax.set_xlabel("a*")
-    for ax in axes[:, 0]:
-        ax.set_ylabel("b*")
-    axes[0, 0].set(xlim=(-200, 200), ylim=(-200, 200))
-    axes[0, 0].plot([], [], color=PALETTE["gamut"], lw=1.2, label=plain_text(spec_label))
-    axes[0, 0].plot([], [], color="#6b6b6b", lw=1.2, ls=(0, (4, 2)), label=plain_text(reference_label))
-    fig.legend(loc="lower center", ncol=2, fontsize=7, frameon=False)
-    fig.suptitle(plain_text(f"CIELAB gamut at six lightness levels, against {reference_label}"), fontsize=10)
-    return fig, axes

@@ -46,7 +46,8 @@ def _stat_view(st) -> dict:
 
 
 def _histograms(e, members, prefix: str) -> list[dict]:
-    from . import figures as F  # imported only when a figure is drawn (matplotlib is slow to load)
+    from . import charts as C  # imported only when a figure is drawn
+    from . import figures as F
 
     a = e.assessment
     rule = a.rule
@@ -61,7 +62,7 @@ def _histograms(e, members, prefix: str) -> list[dict]:
             guard = 0.0 if rule.name != "guard-banded" else (
                 float(c.U) if np.ndim(c.U) == 0 else float(rule.U(c.quantity, ref)))
             xlabel = f"{c.quantity}{suffix}" + (f" (guard band w = U = {guard:.4g} at the limit)" if guard else "")
-            fig, _ = F.histogram(values[idx], lo, hi, guard, f"{c.label}{suffix} — {c.subject}", xlabel)
+            fig, _ = C.histogram(values[idx], lo, hi, guard, f"{c.label}{suffix} — {c.subject}", xlabel)
             name = f"{prefix}-{c.id}{suffix}.svg"
             out.append({"file": name, "svg": F.save_svg(fig), "title": f"{c.id}{suffix}",
                         "alt": f"Histogram of {c.label}{suffix} for {c.subject} over {idx.size} units, with the "
@@ -72,7 +73,7 @@ def _histograms(e, members, prefix: str) -> list[dict]:
 def _diagrams(e, members, prefix: str, what: str, full: bool = True) -> list[dict]:
     """A lot's diagrams; none for lots smaller than HISTOGRAM_MIN_UNITS, whose units the
     spec page's diagrams already show legibly."""
-    from . import figures as F  # imported only when a figure is drawn (matplotlib is slow to load)
+    from . import figures as F  # imported only when a figure is drawn
     from .diagrams import layer_for
 
     out = []
