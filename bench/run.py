@@ -141,9 +141,14 @@ def measure_in_process(tmp: Path, info: dict, repeats: int) -> dict:
                 t = time.perf_counter()
                 D._draw(which, layer, "benchmark", "benchmark")
                 times[which].append((time.perf_counter() - t) * 1000)
+    from figures import figure_times
+
+    os.chdir(ROOT)
+    demo = figure_times(repeats)
     return {"units": units, "assess_seconds": t_assess, "units_per_second": units / t_assess if t_assess else None,
             "diagram_ms": {k: statistics.median(v) for k, v in times.items()},
-            "diagram_draws": sum(len(v) for v in times.values())}
+            "diagram_draws": sum(len(v) for v in times.values()),
+            "demo_figures_ms": {k: (v if k == "first_ms" else v["median_ms"]) for k, v in demo.items()}}
 
 
 def measure_kernels(quick: bool) -> list[dict] | str:
@@ -193,6 +198,8 @@ def print_report(report: dict) -> None:
         ("check, one spec, whole process (s)", b["check_one"]["seconds"]),
         ("check, whole library, whole process (s)", b["check_all"]["seconds"]),
         *[(f"diagram {k}, median after the first (ms)", v) for k, v in p["diagram_ms"].items()],
+        *[(f"demo site {k.replace('_ms', '')} figure (ms)" if k != "first_ms" else "demo site, first figure of a process (ms)", v)
+          for k, v in p["demo_figures_ms"].items()],
         ("units assessed per second", p["units_per_second"]),
         ("peak memory, cold build (MiB)", b["cold"]["peak_mib"]),
         ("peak memory, check one spec (MiB)", b["check_one"]["peak_mib"]),

@@ -7,8 +7,8 @@ its own file and of every spec it depends on (its ancestors through ``extends``,
 specs its gamut rows use as references, and theirs) with the spectra CSV files each
 of them reads, the bytes of every measurement file it reads (its own ``measurements:``
 or inherited ones), its file name and history,
-the templates and static files, the generator's own source, the tool's version and
-matplotlib's. Anything else changed gives a new key, so a hit is the same bytes a
+the templates and static files, the generator's own source (figures included: they are
+hand-written SVG) and the tool's version. Anything else changed gives a new key, so a hit is the same bytes a
 full build would render. The index and results.json are always rebuilt (cheap).
 
 The cache lives in a hidden folder beside the site (``.site_output.cache/`` for
@@ -47,13 +47,11 @@ def _tree_digest(root: Path, suffixes: tuple[str, ...] | None = None) -> str:
 
 @lru_cache(maxsize=1)
 def tool_digest() -> str:
-    """Version, generator source and data, templates and static files, matplotlib version."""
-    from importlib.metadata import version
-
+    """Version, generator source and data, templates and static files."""
     from .render.pages import templates_dir
 
     here = Path(__file__).resolve().parent
-    parts = [FORMAT, __version__, version("matplotlib"), _tree_digest(here, (".py", ".csv")),
+    parts = [FORMAT, __version__, _tree_digest(here, (".py", ".csv")),
              _tree_digest(templates_dir())]
     return hashlib.sha256("\n".join(parts).encode()).hexdigest()
 

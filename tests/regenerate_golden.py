@@ -17,7 +17,7 @@ GOLDEN = ROOT / "tests" / "golden"
 
 def golden_files(site: Path) -> dict[str, bytes]:
     """The part of a built site kept as golden output: pages, scripts, results and figure data, not SVG
-    (whose bytes follow the installed matplotlib's version)."""
+    (large; the drawing is tested in tests/test_render_*.py and reproducibility in test_reproducible)."""
     out = {}
     for p in sorted(site.rglob("*")):
         if p.is_file() and p.suffix in (".html", ".json", ".csv", ".css", ".js"):

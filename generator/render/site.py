@@ -209,7 +209,7 @@ def spec_files(e, env, history=None, site_url: str | None = None, reload: bool =
     """The costly part of a spec's output (name -> bytes): each diagram's SVG with its
     numbers as CSV and JSON, the page, its lot and supplier pages with their diagrams
     and histograms, and its ``entry`` of results.json encoded."""
-    from .diagrams import spec_figures  # imported only when a figure is drawn (matplotlib is slow to load)
+    from .diagrams import spec_figures  # imported only when a figure is drawn (check never needs it)
 
     figs = spec_figures(e)
     files = {}

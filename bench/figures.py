@@ -1,6 +1,6 @@
-"""Print how long the demo site's figures take to draw and save as SVG (medians).
+"""How long the demo site's figures take to draw as SVG (medians), every kind.
 
-    OPENBLAS_NUM_THREADS=1 python benchmarks/figures.py
+    python bench/figures.py          (bench/run.py includes these figures)
 
 Not a test: timings on a shared machine vary; compare runs made one after the other.
 The in-memory memo of drawn diagrams is cleared before every draw, so each is drawn.
@@ -21,7 +21,8 @@ ROOT = Path(__file__).resolve().parent.parent
 KINDS = ("xy", "uv", "white", "spectra", "volume")
 
 
-def main(repeats: int = 5) -> int:
+def figure_times(repeats: int = 5) -> dict:
+    """{"first_ms": ..., "<kind>": {"median_ms", "min_ms", "max_ms", "draws"}} for the demo specs."""
     sys.path.insert(0, str(ROOT))
     from generator.build import evaluate
     from generator.render import diagrams as D
@@ -60,11 +61,19 @@ def main(repeats: int = 5) -> int:
                 n = len(L._histograms(e, members, "bench"))
                 if n:
                     hist.append((time.perf_counter() - t0) * 1000 / n)
-    print(f"first diagram of the process (xy, static layers drawn): {first:6.1f} ms")
+    out: dict = {"first_ms": first}
     for which, ts in [*times.items(), ("histogram", hist)]:
         if ts:
-            print(f"{which:>9}: median {statistics.median(ts):6.1f} ms over {len(ts)} draws "
-                  f"(min {min(ts):.1f}, max {max(ts):.1f})")
+            out[which] = {"median_ms": statistics.median(ts), "min_ms": min(ts), "max_ms": max(ts), "draws": len(ts)}
+    return out
+
+
+def main(repeats: int = 5) -> int:
+    t = figure_times(repeats)
+    print(f"first diagram of the process (xy, static layers drawn): {t.pop('first_ms'):6.1f} ms")
+    for which, r in t.items():
+        print(f"{which:>9}: median {r['median_ms']:6.1f} ms over {r['draws']} draws "
+              f"(min {r['min_ms']:.1f}, max {r['max_ms']:.1f})")
     return 0
 
 
