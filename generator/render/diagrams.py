@@ -23,6 +23,7 @@ from ..colour.macadam import macadam_metric, metric_axes
 from ..data.lamp_standards import standard_name as lamp_name
 from ..colour.npm import npm_from_primaries
 from ..colour.volume import lightness_slice
+from .results import dumps_one_per_line
 from ..data import OBSERVERS
 from . import charts as C
 from . import figures as F
@@ -141,8 +142,10 @@ def plotted_points(layer: F.Layer, which: str) -> list[dict]:
         rows.append({"kind": "target", "name": name, "at": co(xy), "verdict": ""})
     if layer.white_xy is not None:
         rows.append({"kind": "target", "name": "white", "at": co(layer.white_xy), "verdict": ""})
-    for label, xy, verdict in layer.units:
-        rows.append({"kind": "unit", "name": label, "at": co(xy), "verdict": verdict})
+    if layer.units:      # all units converted at once (a lot diagram draws up to 1500)
+        at = co(np.array([xy for _, xy, _ in layer.units], dtype=float).reshape(-1, 2))
+        rows += [{"kind": "unit", "name": label, "at": at[k], "verdict": verdict}
+                 for k, (label, _, verdict) in enumerate(layer.units)]
     for title, hull in layer.references:
         for k, xy in enumerate(np.asarray(hull)):
             rows.append({"kind": "reference", "name": f"{title} corner {k + 1}", "at": co(xy), "verdict": ""})
@@ -154,12 +157,12 @@ def _data_json(which, layer, rows) -> str:
     doc = {
         "figure": which, "title": layer.title, "coordinates": [a, b], "observer": layer.observer,
         "points": [{"kind": r["kind"], "name": r["name"], a: float(r["at"][0]), b: float(r["at"][1]),
-                    **({"verdict": r["verdict"]} if r["verdict"] else {})} for r in rows],
+                    **({"verdict": r["verdict"]} if r["verdict"] else {})} for r in rows],   # one a line
         "tolerances": [{"label": label, "outline": [[float(v) for v in p] for p in
                         (np.asarray(poly) if which == "xy" else xy_to_uv_prime(np.asarray(poly)))]}
                        for label, poly in layer.tolerances],
     }
-    return json.dumps(doc, indent=1, ensure_ascii=False) + "\n"
+    return dumps_one_per_line(doc, ("points", "tolerances"), indent=1, allow_nan=True)
 
 
 def _data_csv(which, rows) -> str:

@@ -69,11 +69,13 @@ def spec_context(e, figs, site_url: str | None = None, history=None) -> SpecCont
     """``history``: the spec file's history entries (generator/history.py), or None for
     no history section."""
     spec, d, a = e.spec, e.derived, e.assessment
-    rows = [row_view(r) for r in a.rows]
-    design = [r for r in rows if r["sample"] is None]
-    unit_rows = [r for r in rows if r["sample"] is not None]
+    rows = a.rows      # formatted for the page only where shown (a lot can give a million rows)
+    design = [row_view(r) for r in rows if r["sample"] is None]
+    unit_raw = [r for r in rows if r["sample"] is not None]
+    unit_rows = [row_view(r) for r in unit_raw[:MAX_UNIT_ROWS]]
     lot_names, sup_names = page_names(a)
-    failing = [dict(r, what=_what(r)) for r in rows if r["verdict"] != "pass"]
+    failing_raw = [r for r in rows if r["verdict"] != "pass"]
+    failing = [dict(v, what=_what(v)) for v in map(row_view, failing_raw[:12])]
     white = None
     if d.white:
         w = d.white
@@ -130,14 +132,14 @@ def spec_context(e, figs, site_url: str | None = None, history=None) -> SpecCont
         "counts": {"rows": len(rows), "fail": sum(r["verdict"] == "fail" for r in rows),
                    "indeterminate": sum(r["verdict"] == "indeterminate" for r in rows),
                    "units": len(a.units), "units_fail": n_fail_units},
-        "failing": failing[:12], "failing_more": max(0, len(failing) - 12),
+        "failing": failing, "failing_more": max(0, len(failing_raw) - 12),
         "figures": [{k: f[k] for k in ("key", "file", "csv", "json", "title", "alt", "axes", "rows", "tolerances",
                                           "width", "height")}
                     for f in figs],
         "design_rows": design,
         "units": _units_view(a, np.arange(n_units(e))) if n_units(e) else [],
         "n_units": n_units(e),
-        "unit_rows": unit_rows[:MAX_UNIT_ROWS], "n_unit_rows": len(unit_rows),
+        "unit_rows": unit_rows, "n_unit_rows": len(unit_raw),
         "lots": [dict(lot, page=lot_names[lot["lot"]], symbol=SYMBOLS[lot["verdict"]]) for lot in a.lots],
         "suppliers": [dict(s, page=sup_names[s["supplier"]], symbol=SYMBOLS[s["verdict"]]) for s in a.suppliers],
         "measurements": spec.measurements,
