@@ -278,3 +278,18 @@ def test_the_observer_is_passed_to_planckian_functions_that_take_it_and_not_to_o
     assert F._kw(with_observer, "cie1964-10") == {"observer": "cie1964-10"}
     assert F._kw(without, "cie1964-10") == {}
     assert np.isfinite(F.planck_uv_prime(np.array([6500.0]), "cie1964-10")).all()
+
+
+def test_the_table_beside_a_diagram_lists_every_target_and_at_most_the_cap_of_unit_points():
+    from generator.render.diagrams import TABLE_UNIT_POINTS, table_rows
+
+    rows = [{"kind": "target", "name": "white", "verdict": ""}]
+    rows += [{"kind": "unit", "name": f"U{i}", "verdict": "fail" if i % 97 == 0 else "pass"} for i in range(1000)]
+    rows += [{"kind": "reference", "name": "sRGB corner 1", "verdict": ""}]
+    shown = table_rows(rows)
+    units = [r for r in shown if r["kind"] == "unit"]
+    assert len(units) == TABLE_UNIT_POINTS
+    fails = [r["name"] for r in rows if r["verdict"] == "fail"]
+    assert [r["name"] for r in units[:len(fails)]] == fails          # units that do not pass come first
+    assert {r["kind"] for r in shown} == {"target", "unit", "reference"}
+    assert table_rows(rows[:50]) == rows[:50]                       # under the cap: every point, in order

@@ -24,6 +24,8 @@ class FigureView(TypedDict):
                         # volume: the spec's and the reference's slice areas
     rows: list[dict]    # kind, name, a, b (formatted numbers), verdict and symbol ('' for targets)
     tolerances: list[str]
+    units_listed: int   # unit points in rows (at most diagrams.TABLE_UNIT_POINTS)
+    units_drawn: int    # unit points drawn (every one is in the CSV and JSON)
 
 
 class SpecContext(Base):

@@ -152,6 +152,19 @@ def plotted_points(layer: F.Layer, which: str) -> list[dict]:
     return rows
 
 
+TABLE_UNIT_POINTS = 200   # unit points listed in the table beside a diagram; the CSV and JSON have all
+
+
+def table_rows(rows: list[dict]) -> list[dict]:
+    """The points listed beside a diagram: every target and reference corner, and up to
+    TABLE_UNIT_POINTS unit points, those that do not pass first."""
+    units = [r for r in rows if r["kind"] == "unit"]
+    if len(units) <= TABLE_UNIT_POINTS:
+        return rows
+    keep = sorted(units, key=lambda r: r["verdict"] == "pass")[:TABLE_UNIT_POINTS]   # stable: in order
+    return [r for r in rows if r["kind"] != "unit"] + keep
+
+
 def _data_json(which, layer, rows) -> str:
     a, b = _KEYS[which]
     doc = {
@@ -345,7 +358,9 @@ def spec_figures(e) -> list[dict]:
             "axes": [a, b],
             "rows": [{"kind": r["kind"], "name": r["name"], "a": fmt(float(r["at"][0])),
                       "b": fmt(float(r["at"][1])), "verdict": r["verdict"], "symbol": SYMBOL.get(r["verdict"], "")}
-                     for r in rows],
+                     for r in table_rows(rows)],
+            "units_drawn": sum(r["kind"] == "unit" for r in rows),
+            "units_listed": sum(r["kind"] == "unit" for r in table_rows(rows)),
             "tolerances": [label for label, _ in layer.tolerances],
         })
     order = ["xy", "uv", "spectra", "volume", "white"]

@@ -133,8 +133,9 @@ def spec_context(e, figs, site_url: str | None = None, history=None) -> SpecCont
                    "indeterminate": sum(r["verdict"] == "indeterminate" for r in rows),
                    "units": len(a.units), "units_fail": n_fail_units},
         "failing": failing, "failing_more": max(0, len(failing_raw) - 12),
-        "figures": [{k: f[k] for k in ("key", "file", "csv", "json", "title", "alt", "axes", "rows", "tolerances",
-                                          "width", "height")}
+        "figures": [{**{k: f[k] for k in ("key", "file", "csv", "json", "title", "alt", "axes", "rows", "tolerances",
+                                             "width", "height")},
+                     "units_listed": f.get("units_listed", 0), "units_drawn": f.get("units_drawn", 0)}
                     for f in figs],
         "design_rows": design,
         "units": _units_view(a, np.arange(n_units(e))) if n_units(e) else [],
