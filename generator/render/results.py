@@ -6,8 +6,11 @@ import json
 FORMAT = "colourspec-results/1"
 
 
-def spec_result(spec, derived, assessment) -> dict:
-    rows = [{k: v for k, v in r.items() if k != "label"} for r in assessment.rows]
+def spec_result(spec, derived, assessment, unit_rows: bool = True) -> dict:
+    """The spec's entry; without ``unit_rows`` its requirements are the design rows only
+    (``entry_text`` writes the unit rows straight from the assessment's columns)."""
+    source = assessment.rows if unit_rows else assessment.design_rows
+    rows = [{k: v for k, v in r.items() if k != "label"} for r in source]
     return {
         "id": spec.id,
         "file": spec.file,
@@ -53,17 +56,23 @@ def dumps(doc: dict) -> str:
     return dumps_from_entries(doc, [dumps_entry(e) for e in doc.get("specs", [])])
 
 
-def dumps_one_per_line(doc: dict, keys, indent: int = 2, allow_nan: bool = False) -> str:
+def dumps_one_per_line(doc: dict, keys, indent: int = 2, allow_nan: bool = False,
+                       encoded: dict | None = None) -> str:
     """JSON of ``doc`` indented by ``indent``, the entries of the lists under ``keys`` (top
-    level) one a line (encoded by the C encoder: several times faster than indenting them)."""
-    marks = {k: f"\x00{k}\x00" for k in keys if doc.get(k)}
+    level) one a line (encoded by the C encoder: several times faster than indenting them).
+    ``encoded`` (key -> list of JSON texts) gives a list's entries already encoded."""
+    encoded = encoded or {}
+    marks = {k: f"\x00{k}\x00" for k in keys if doc.get(k) or encoded.get(k)}
     text = json.dumps({k: marks.get(k, v) for k, v in doc.items()}, indent=indent, ensure_ascii=False,
                       allow_nan=allow_nan) + "\n"
     if any(text.count(json.dumps(mark)) != 1 for mark in marks.values()):   # a value spelling a mark
-        return json.dumps(doc, indent=indent, ensure_ascii=False, allow_nan=allow_nan) + "\n"
+        full = {k: (v if k not in encoded else [json.loads(t) for t in encoded[k]]) for k, v in doc.items()}
+        return json.dumps(full, indent=indent, ensure_ascii=False, allow_nan=allow_nan) + "\n"
     pad = " " * indent
     for k, mark in marks.items():
-        rows = ",\n".join(pad * 2 + json.dumps(r, ensure_ascii=False, allow_nan=allow_nan) for r in doc[k])
+        texts = encoded[k] if k in encoded else [json.dumps(r, ensure_ascii=False, allow_nan=allow_nan)
+                                                  for r in doc[k]]
+        rows = ",\n".join(pad * 2 + t for t in texts)
         text = text.replace(json.dumps(mark), "[\n" + rows + "\n" + pad + "]", 1)
     return text
 
@@ -87,3 +96,15 @@ def dumps_from_entries(doc: dict, entry_texts: list) -> str | bytes:
     body = (b",\n" if as_bytes else ",\n").join(pad + t.rstrip(nl).replace(nl, nl + pad) for t in entry_texts)
     tail = ("[\n", "\n  ]\n}\n") if not as_bytes else (b"[\n", b"\n  ]\n}\n")
     return head[: -len("[]\n}\n")] + tail[0] + body + tail[1]
+
+
+def entry_text(spec, derived, assessment) -> str:
+    """``dumps_entry(spec_result(...))`` without building a dict per unit row: the unit rows
+    are written from the assessment's columns (a 100,000-unit lot has ~10⁶ of them)."""
+    from .unit_rows import unit_rows_json
+
+    entry = spec_result(spec, derived, assessment, unit_rows=False)
+    texts = [json.dumps(r, ensure_ascii=False, allow_nan=False) for r in entry["requirements"]]
+    if assessment.table is not None:
+        texts += unit_rows_json(assessment.columns, assessment.table, assessment.rule.uncertainty is not None)
+    return dumps_one_per_line(entry, ONE_PER_LINE, encoded={"requirements": texts})

@@ -1,0 +1,91 @@
+"""results.json rows of measured units written straight from the assessment's columns.
+
+The same text as encoding ``assess.units.unit_rows`` dicts with ``json.dumps`` (tested),
+without building a dict per row: each requirement's fixed parts are encoded once, and
+only the serial, value, verdict, margin, uncertainty and lot change from unit to unit.
+"""
+from __future__ import annotations
+
+import json
+
+from ..assess.units import UNITS
+from ..assess.rules import CODES
+
+_FIXED = ("id", "subject", "sample", "quantity", "value", "unit", "limit", "verdict", "margin", "label",
+          "uncertainty", "lot")
+
+
+def _j(v) -> str:
+    return json.dumps(v, ensure_ascii=False, allow_nan=False)
+
+
+def _num(v) -> str:
+    # assess.units._num: NaN and infinities are written as null
+    return repr(v) if v == v and v not in (float("inf"), float("-inf")) else "null"
+
+
+def _row_dict(c, i: int, serial: str, lot: str, U) -> dict:
+    """The row as assess.units.unit_rows builds it, without its label."""
+    if c.rows is not None:
+        r = {k: v for k, v in c.rows[i].items() if k != "label"}
+    else:
+        v = {"dx": float(c.parts["dx"][i]), "dy": float(c.parts["dy"][i])} if c.parts else _value(c.value[i])
+        r = {"id": c.id, "subject": c.subject, "sample": serial, "quantity": c.quantity, "value": v,
+             "unit": UNITS.get(c.quantity, ""), "limit": c.limit, "verdict": CODES[int(c.code[i])],
+             "margin": _value(c.margin[i])}
+        r.update(c.extra)
+    if U is not None:
+        r["uncertainty"] = U[i]
+    r["lot"] = lot
+    return r
+
+
+def _value(v):
+    v = float(v)
+    return v if v == v and v not in (float("inf"), float("-inf")) else None
+
+
+def _column_texts(c, serials, lots, serials_j, lots_j, with_uncertainty: bool) -> list[str | None]:
+    """One JSON text per unit (None where the unit was not assessed on this column)."""
+    code = c.code.tolist()
+    n = len(code)
+    U = _broadcast(c.U, n) if with_uncertainty else None
+    if c.rows is not None or any(k in _FIXED for k in c.extra):     # rows built one by one: encode them
+        return [None if code[i] < 0 else _j(_row_dict(c, i, serials[i], lots[i], U)) for i in range(n)]
+    head = f'{{"id": {_j(c.id)}, "subject": {_j(c.subject)}, "sample": '
+    mid = f', "quantity": {_j(c.quantity)}, "value": '
+    tail = f', "unit": {_j(UNITS.get(c.quantity, ""))}, "limit": {_j(c.limit)}, "verdict": '
+    extra = "".join(f", {_j(k)}: {_j(v)}" for k, v in c.extra.items())
+    verdicts = [_j(v) for v in CODES]
+    if c.parts:
+        values = [f'{{"dx": {_j(a)}, "dy": {_j(b)}}}'
+                  for a, b in zip(c.parts["dx"].tolist(), c.parts["dy"].tolist(), strict=True)]
+    else:
+        values = [_num(v) for v in c.value.tolist()]
+    margins = [_num(v) for v in c.margin.tolist()]
+    unc = [f', "uncertainty": {_j(u)}' for u in U] if U is not None else [""] * n
+    return [None if code[i] < 0 else
+            (head + serials_j[i] + mid + values[i] + tail + verdicts[code[i]] + ', "margin": ' + margins[i]
+             + extra + unc[i] + ', "lot": ' + lots_j[i] + "}")
+            for i in range(n)]
+
+
+def _broadcast(U, n: int) -> list:
+    import numpy as np
+
+    return np.broadcast_to(U, (n,)).tolist()
+
+
+def unit_rows_json(cols: list, table, with_uncertainty: bool) -> list[str]:
+    """The JSON text of every unit row, unit by unit, in column order (as assess.units.unit_rows)."""
+    memo: dict[str, str] = {}
+
+    def enc(s):
+        if s not in memo:
+            memo[s] = _j(s)
+        return memo[s]
+
+    serials, lots = list(table.serial), list(table.lot)
+    serials_j, lots_j = [enc(s) for s in serials], [enc(s) for s in lots]
+    per_col = [_column_texts(c, serials, lots, serials_j, lots_j, with_uncertainty) for c in cols]
+    return [t for i in range(len(serials)) for col in per_col if (t := col[i]) is not None]
