@@ -47,3 +47,19 @@ def test_check_json_equals_the_built_sites_results(tmp_path, monkeypatch):
     specs = copy_demo(tmp_path)
     build(specs, tmp_path / "site")
     assert dumps(check(specs).results) == (tmp_path / "site" / "results.json").read_text(encoding="utf-8")
+
+
+def test_unit_rows_written_from_the_columns_equal_the_encoded_row_dicts(tmp_path, monkeypatch):
+    """entry_text (unit rows straight from the assessment's columns, as the build writes
+    them) gives the text of encoding spec_result's dicts, for every demo spec."""
+    from generator.build import evaluate
+    from generator.render.results import entry_text, spec_result
+
+    from .conftest import copy_demo
+
+    monkeypatch.chdir(tmp_path)
+    evaluated, _ = evaluate(copy_demo(tmp_path))
+    assert any(e.assessment.table is not None and len(e.assessment.table) >= 50 for e in evaluated)
+    for e in evaluated:
+        assert entry_text(e.spec, e.derived, e.assessment) == dumps_entry(
+            spec_result(e.spec, e.derived, e.assessment)), e.spec.id

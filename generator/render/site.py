@@ -14,7 +14,7 @@ from .contexts import IndexContext, SpecContext
 from .lots import _units_view, lot_pages, page_names
 from .pages import (CAUTION, CAUTION_CATEGORIES, decision_text, environment, fmt, methods, render_markdown,
                     row_view, templates_dir)
-from .results import dumps_entry, dumps_from_entries, spec_result
+from .results import dumps_entry, dumps_from_entries, entry_text
 from .swatch import swatch_hex
 
 SYMBOLS = {"pass": "✓", "fail": "✗", "indeterminate": "?"}
@@ -225,8 +225,8 @@ def spec_files(e, env, history=None, site_url: str | None = None, reload: bool =
     files["index.html"] = env.get_template("spec.html").render(**ctx).encode("utf-8")
     for path, content in lot_pages(e, env, decision_text(e.spec), site_url, reload):
         files[path] = content.encode("utf-8") if isinstance(content, str) else content
-    entry = entry if entry is not None else spec_result(e.spec, e.derived, e.assessment)
-    files["results.json"] = dumps_entry(entry).encode("utf-8")
+    text = dumps_entry(entry) if entry is not None else entry_text(e.spec, e.derived, e.assessment)
+    files["results.json"] = text.encode("utf-8")
     return files
 
 

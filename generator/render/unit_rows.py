@@ -9,6 +9,7 @@ from __future__ import annotations
 import json
 
 from ..assess.units import UNITS
+from ..assess.units import _num as _value     # NaN and infinities as None, as in every unit row
 from ..assess.rules import CODES
 
 _FIXED = ("id", "subject", "sample", "quantity", "value", "unit", "limit", "verdict", "margin", "label",
@@ -29,20 +30,15 @@ def _row_dict(c, i: int, serial: str, lot: str, U) -> dict:
     if c.rows is not None:
         r = {k: v for k, v in c.rows[i].items() if k != "label"}
     else:
-        v = {"dx": float(c.parts["dx"][i]), "dy": float(c.parts["dy"][i])} if c.parts else _value(c.value[i])
+        v = {"dx": float(c.parts["dx"][i]), "dy": float(c.parts["dy"][i])} if c.parts else _value(float(c.value[i]))
         r = {"id": c.id, "subject": c.subject, "sample": serial, "quantity": c.quantity, "value": v,
              "unit": UNITS.get(c.quantity, ""), "limit": c.limit, "verdict": CODES[int(c.code[i])],
-             "margin": _value(c.margin[i])}
+             "margin": _value(float(c.margin[i]))}
         r.update(c.extra)
     if U is not None:
         r["uncertainty"] = U[i]
     r["lot"] = lot
     return r
-
-
-def _value(v):
-    v = float(v)
-    return v if v == v and v not in (float("inf"), float("-inf")) else None
 
 
 def _column_texts(c, serials, lots, serials_j, lots_j, with_uncertainty: bool) -> list[str | None]:
