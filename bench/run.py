@@ -15,6 +15,7 @@ test: figures on a shared machine vary, so compare runs made one after the other
 from __future__ import annotations
 
 import argparse
+import hashlib
 import json
 import os
 import platform
@@ -71,8 +72,11 @@ def _ok(r: dict, what: str) -> dict:
     return r
 
 
-def files_of(site: Path) -> dict[str, bytes]:
-    return {p.relative_to(site).as_posix(): p.read_bytes() for p in sorted(site.rglob("*")) if p.is_file()}
+def files_of(site: Path) -> dict[str, str]:
+    """Relative path -> SHA-256 of every file, read one at a time so the benchmark process
+    stays small (a child's peak memory reported by wait4 can include the parent's pages)."""
+    return {p.relative_to(site).as_posix(): hashlib.sha256(p.read_bytes()).hexdigest()
+            for p in sorted(site.rglob("*")) if p.is_file()}
 
 
 def measure_builds(tmp: Path, info: dict, jobs: int, quick: bool) -> dict:
@@ -92,10 +96,10 @@ def measure_builds(tmp: Path, info: dict, jobs: int, quick: bool) -> dict:
         incs.append(r | {"timings": json.loads((tmp / "inc.json").read_text())})
     serial = _ok(run_measured(["build", "specs", "-o", "serial", "--clean", "--no-history", "--jobs", "1",
                                "--timings", "serial.json"], tmp), "serial build")
-    identical = files_of(site) == files_of(tmp / "serial")
     one = spec_name(edits[0] if edits else 0)
     checks_one = [_ok(run_measured(["check", f"specs/{one}"], tmp), "check") for _ in range(3)]
     check_all = _ok(run_measured(["check", "specs"], tmp), "check")
+    identical = files_of(site) == files_of(tmp / "serial")
     inc_t = statistics.median(r["seconds"] for r in incs) if incs else None
     return {
         "cold": {"seconds": cold["seconds"], "peak_mib": cold["peak_mib"], "jobs": timings["jobs"],
