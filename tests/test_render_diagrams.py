@@ -293,3 +293,19 @@ def test_the_table_beside_a_diagram_lists_every_target_and_at_most_the_cap_of_un
     assert [r["name"] for r in units[:len(fails)]] == fails          # units that do not pass come first
     assert {r["kind"] for r in shown} == {"target", "unit", "reference"}
     assert table_rows(rows[:50]) == rows[:50]                       # under the cap: every point, in order
+
+
+def test_point_texts_are_the_json_of_each_point_dict_for_awkward_names_and_numbers():
+    from generator.render.diagrams import point_texts
+
+    names = ['plain', 'quote " and back\\slash', "tab\tnew\nline", "Ünïcødé ΔE", "\x00ctl", "</script>"]
+    nums = [0.3127, -0.0, 1e-17, 123456789.125, float("nan"), float("inf"), float("-inf"), 5e-324]
+    rows = [{"kind": ("unit", "target")[k % 2], "name": names[k % len(names)],
+             "at": np.array([nums[k % len(nums)], nums[(k * 3 + 1) % len(nums)]]),
+             "verdict": ("", "pass", "fail")[k % 3]} for k in range(48)]
+    texts = point_texts(rows, "u_prime", "v_prime")
+    for r, t in zip(rows, texts, strict=True):
+        d = {"kind": r["kind"], "name": r["name"], "u_prime": float(r["at"][0]), "v_prime": float(r["at"][1])}
+        if r["verdict"]:
+            d["verdict"] = r["verdict"]
+        assert t == json.dumps(d, ensure_ascii=False, allow_nan=True)

@@ -3,6 +3,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 from functools import cached_property
+from itertools import islice
 
 import numpy as np
 
@@ -51,6 +52,35 @@ class Assessment:
             return list(self.design_rows)
         return self.design_rows + list(unit_rows(self.columns, self.table,
                                                  self.rule.uncertainty is not None))
+
+    def _unit_rows(self, units=None):
+        if self.table is None or not self.columns:
+            return iter(())
+        return unit_rows(self.columns, self.table, self.rule.uncertainty is not None, units)
+
+    def row_counts(self) -> dict[str, int]:
+        """Rows in ``rows`` by verdict, and in all (from the codes, without building the rows)."""
+        n = {v: sum(r["verdict"] == v for r in self.design_rows) for v in CODES}
+        for c in self.columns:
+            counts = np.bincount(c.code[c.code >= 0].astype(np.intp), minlength=len(CODES))
+            for k, v in enumerate(CODES):
+                n[v] += int(counts[k])
+        n["rows"] = sum(n[v] for v in CODES)
+        return n
+
+    def unit_rows_head(self, limit: int) -> list[dict]:
+        """The first ``limit`` unit rows of ``rows``."""
+        return list(islice(self._unit_rows(), limit))
+
+    def not_passing_rows(self, limit: int) -> list[dict]:
+        """The first ``limit`` rows of ``rows`` whose verdict is not pass, built only for the
+        units that have one."""
+        out = [r for r in self.design_rows if r["verdict"] != "pass"][:limit]
+        if len(out) < limit and self.columns and self.table is not None:
+            bad = np.flatnonzero(np.any(np.stack([c.code > 0 for c in self.columns]), axis=0))
+            rows = (r for r in self._unit_rows(bad.tolist()) if r["verdict"] != "pass")
+            out += list(islice(rows, limit - len(out)))
+        return out
 
 
 def _row(rid, subject, sample, quantity, value, limit, verdict, marg, label, **extra):

@@ -225,13 +225,15 @@ def _num(v):
     return v if v == v and v not in (np.inf, -np.inf) else None
 
 
-def unit_rows(cols: list[Column], table: UnitTable, with_uncertainty: bool):
-    """results.json rows of every unit, unit by unit, in column order (a generator)."""
+def unit_rows(cols: list[Column], table: UnitTable, with_uncertainty: bool, units=None):
+    """results.json rows of every unit (or of the unit indices ``units``, ascending), unit
+    by unit, in column order (a generator)."""
     lists = [(c, c.code.tolist(), c.value.tolist(), c.margin.tolist(),
               np.broadcast_to(c.U, c.code.shape).tolist() if with_uncertainty else None,
               {k: v.tolist() for k, v in c.parts.items()}) for c in cols]
-    for i, serial in enumerate(table.serial):
-        lot = table.lot[i]
+    serials = table.serial
+    for i in (range(len(serials)) if units is None else units):
+        serial, lot = serials[i], table.lot[i]
         for c, code, value, marg, U, parts in lists:
             k = code[i]
             if k < 0:

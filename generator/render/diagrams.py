@@ -165,17 +165,39 @@ def table_rows(rows: list[dict]) -> list[dict]:
     return [r for r in rows if r["kind"] != "unit"] + keep
 
 
+def _float_text(v: float) -> str:
+    # json.dumps(v, allow_nan=True): a finite float's repr, else NaN / Infinity / -Infinity
+    return float.__repr__(v) if v - v == 0.0 else ("NaN" if v != v else ("Infinity" if v > 0 else "-Infinity"))
+
+
+def point_texts(rows, a: str, b: str) -> list[str]:
+    """The JSON text of each point, as ``json.dumps(point, ensure_ascii=False,
+    allow_nan=True)`` of {"kind", "name", a, b[, "verdict"]} gives it (tested), without a
+    dict per point: a lot diagram has thousands."""
+    enc = json.encoder.encode_basestring          # the str encoder json.dumps(ensure_ascii=False) uses
+    ka, kb = f", {enc(a)}: ", f", {enc(b)}: "
+    kinds: dict[str, str] = {}
+    out = []
+    for r in rows:
+        kind = kinds.get(r["kind"]) or kinds.setdefault(r["kind"], '{"kind": ' + enc(r["kind"]) + ', "name": ')
+        x, y = r["at"].tolist()
+        v = r["verdict"]
+        out.append(kind + enc(r["name"]) + ka + _float_text(x) + kb + _float_text(y)
+                   + (', "verdict": ' + enc(v) + "}" if v else "}"))
+    return out
+
+
 def _data_json(which, layer, rows) -> str:
     a, b = _KEYS[which]
     doc = {
         "figure": which, "title": layer.title, "coordinates": [a, b], "observer": layer.observer,
-        "points": [{"kind": r["kind"], "name": r["name"], a: float(r["at"][0]), b: float(r["at"][1]),
-                    **({"verdict": r["verdict"]} if r["verdict"] else {})} for r in rows],   # one a line
+        "points": [],                                               # one a line, from point_texts
         "tolerances": [{"label": label, "outline": [[float(v) for v in p] for p in
                         (np.asarray(poly) if which == "xy" else xy_to_uv_prime(np.asarray(poly)))]}
                        for label, poly in layer.tolerances],
     }
-    return dumps_one_per_line(doc, ("points", "tolerances"), indent=1, allow_nan=True)
+    return dumps_one_per_line(doc, ("points", "tolerances"), indent=1, allow_nan=True,
+                              encoded={"points": point_texts(rows, a, b)})
 
 
 def _data_csv(which, rows) -> str:

@@ -69,13 +69,13 @@ def spec_context(e, figs, site_url: str | None = None, history=None) -> SpecCont
     """``history``: the spec file's history entries (generator/history.py), or None for
     no history section."""
     spec, d, a = e.spec, e.derived, e.assessment
-    rows = a.rows      # formatted for the page only where shown (a lot can give a million rows)
-    design = [row_view(r) for r in rows if r["sample"] is None]
-    unit_raw = [r for r in rows if r["sample"] is not None]
-    unit_rows = [row_view(r) for r in unit_raw[:MAX_UNIT_ROWS]]
+    # rows are built and formatted for the page only where shown (a lot can give a million)
+    counts = a.row_counts()
+    design = [row_view(r) for r in a.design_rows]
+    unit_rows = [row_view(r) for r in a.unit_rows_head(MAX_UNIT_ROWS)]
     lot_names, sup_names = page_names(a)
-    failing_raw = [r for r in rows if r["verdict"] != "pass"]
-    failing = [dict(v, what=_what(v)) for v in map(row_view, failing_raw[:12])]
+    failing = [dict(v, what=_what(v)) for v in map(row_view, a.not_passing_rows(12))]
+    n_failing = counts["rows"] - counts["pass"]
     white = None
     if d.white:
         w = d.white
@@ -129,10 +129,9 @@ def spec_context(e, figs, site_url: str | None = None, history=None) -> SpecCont
                  "extends": spec.extends, "family": spec.family, "owner": spec.owner,
                  "inherited": sorted(spec.inherited.items())},
         "verdict": a.verdict, "verdict_symbol": SYMBOLS[a.verdict],
-        "counts": {"rows": len(rows), "fail": sum(r["verdict"] == "fail" for r in rows),
-                   "indeterminate": sum(r["verdict"] == "indeterminate" for r in rows),
+        "counts": {"rows": counts["rows"], "fail": counts["fail"], "indeterminate": counts["indeterminate"],
                    "units": len(a.units), "units_fail": n_fail_units},
-        "failing": failing, "failing_more": max(0, len(failing_raw) - 12),
+        "failing": failing, "failing_more": max(0, n_failing - 12),
         "figures": [{**{k: f[k] for k in ("key", "file", "csv", "json", "title", "alt", "axes", "rows", "tolerances",
                                              "width", "height")},
                      "units_listed": f.get("units_listed", 0), "units_drawn": f.get("units_drawn", 0)}
@@ -140,7 +139,7 @@ def spec_context(e, figs, site_url: str | None = None, history=None) -> SpecCont
         "design_rows": design,
         "units": _units_view(a, np.arange(n_units(e))) if n_units(e) else [],
         "n_units": n_units(e),
-        "unit_rows": unit_rows, "n_unit_rows": len(unit_raw),
+        "unit_rows": unit_rows, "n_unit_rows": counts["rows"] - len(a.design_rows),
         "lots": [dict(lot, page=lot_names[lot["lot"]], symbol=SYMBOLS[lot["verdict"]]) for lot in a.lots],
         "suppliers": [dict(s, page=sup_names[s["supplier"]], symbol=SYMBOLS[s["verdict"]]) for s in a.suppliers],
         "measurements": spec.measurements,

@@ -59,11 +59,17 @@ def _column_texts(c, serials, lots, serials_j, lots_j, with_uncertainty: bool) -
     else:
         values = [_num(v) for v in c.value.tolist()]
     margins = [_num(v) for v in c.margin.tolist()]
-    unc = [f', "uncertainty": {_j(u)}' for u in U] if U is not None else [""] * n
+    unc = _texts(U, ', "uncertainty": ') if U is not None else [""] * n
     return [None if code[i] < 0 else
             (head + serials_j[i] + mid + values[i] + tail + verdicts[code[i]] + ', "margin": ' + margins[i]
              + extra + unc[i] + ', "lot": ' + lots_j[i] + "}")
             for i in range(n)]
+
+
+def _texts(values: list, prefix: str) -> list[str]:
+    """``prefix + json.dumps(value)`` of each value; a finite float's JSON text is its repr."""
+    fin = float.__repr__
+    return [prefix + (fin(u) if type(u) is float and u - u == 0.0 else _j(u)) for u in values]
 
 
 def _broadcast(U, n: int) -> list:
