@@ -26,6 +26,7 @@ from functools import lru_cache
 from pathlib import Path
 
 from . import __version__
+from .publish import FileRef
 
 FORMAT = "colourspec-cache/1"
 KEEP = {"evaluated"}     # the evaluation memo's folder (generator/memo.py)
@@ -96,13 +97,21 @@ class Cache:
         if clean and root.exists():
             shutil.rmtree(root)
 
-    def get(self, key: str) -> dict[str, bytes] | None:
+    def get(self, key: str, refs: bool = False) -> dict | None:
+        """The entry's files as bytes, or with ``refs`` as FileRefs to the cache's files
+        (published as hard links: an entry's files are never rewritten in place)."""
         entry = self.root / key
         try:
             manifest = json.loads((entry / "manifest.json").read_text(encoding="utf-8"))
             if manifest.get("format") != FORMAT:
                 return None
-            files = {name: (entry / f"{i}").read_bytes() for i, name in enumerate(manifest["files"])}
+            paths = {name: entry / f"{i}" for i, name in enumerate(manifest["files"])}
+            if refs:
+                if not all(p.is_file() for p in paths.values()):
+                    raise OSError("an entry's file is missing")
+                files = {name: FileRef(p) for name, p in paths.items()}
+            else:
+                files = {name: p.read_bytes() for name, p in paths.items()}
         except (OSError, ValueError, KeyError, TypeError):
             self.misses += 1
             return None
@@ -110,7 +119,8 @@ class Cache:
         self.hits += 1
         return files
 
-    def put(self, key: str, files: dict[str, bytes]) -> None:
+    def put(self, key: str, files: dict[str, bytes]) -> dict[str, FileRef] | None:
+        """Store an entry; FileRefs to its files, or None when the cache cannot be written."""
         self.used.add(key)
         try:
             self.root.mkdir(parents=True, exist_ok=True)
@@ -119,12 +129,14 @@ class Cache:
             for i, name in enumerate(names):
                 (tmp / f"{i}").write_bytes(files[name])
             (tmp / "manifest.json").write_text(json.dumps({"format": FORMAT, "files": names}), encoding="utf-8")
+            os.chmod(tmp, 0o755)      # mkdtemp makes it private
             target = self.root / key
             if target.exists():
                 shutil.rmtree(target)
             os.replace(tmp, target)
         except OSError:
-            pass  # a cache that cannot be written only costs time
+            return None  # a cache that cannot be written only costs time
+        return {name: FileRef(target / f"{i}") for i, name in enumerate(names)}
 
     def prune(self) -> None:
         """Remove every entry this build did not use (and half-written ones)."""

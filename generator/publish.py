@@ -61,13 +61,33 @@ def terminate_as_exception():
         signal.signal(signal.SIGTERM, previous)
 
 
+class FileRef:
+    """Content that already lies in a file no one rewrites in place (a cache entry):
+    published as a hard link to that file where the filesystem allows, else copied."""
+
+    __slots__ = ("path",)
+
+    def __init__(self, path: Path) -> None:
+        self.path = Path(path)
+
+    def read(self) -> bytes:
+        return self.path.read_bytes()
+
+    def __repr__(self) -> str:
+        return f"FileRef({str(self.path)!r})"
+
+
+def content_bytes(content: bytes | FileRef) -> bytes:
+    return content.read() if isinstance(content, FileRef) else content
+
+
 class SiteFiles:
-    """An in-memory site: relative POSIX path -> bytes."""
+    """A site to publish: relative POSIX path -> bytes, or a FileRef to a file holding them."""
 
     def __init__(self) -> None:
-        self.files: dict[str, bytes] = {}
+        self.files: dict[str, bytes | FileRef] = {}
 
-    def add(self, rel: str, content: str | bytes) -> None:
+    def add(self, rel: str, content: str | bytes | FileRef) -> None:
         p = PurePosixPath(rel)
         if (p.is_absolute() or ".." in p.parts or not p.parts or rel != str(p) or "\\" in rel
                 or any(ord(c) < 32 for c in rel)):
@@ -156,6 +176,17 @@ def _exchange(a: Path, b: Path) -> bool:
     raise OSError(err, os.strerror(err), str(a))
 
 
+def _link_or_copy(src: Path, target: Path) -> None:
+    """A hard link to ``src`` (no bytes written), or a copy where links are refused (another
+    filesystem, a filesystem without them)."""
+    try:
+        os.link(src, target)
+    except OSError as e:
+        if e.errno == errno.ENOENT and not src.exists():
+            raise
+        shutil.copyfile(src, target)
+
+
 def _swap_in(tmp: Path, out: Path) -> None:
     if not out.exists():
         os.rename(tmp, out)
@@ -224,8 +255,12 @@ def _publish(site: SiteFiles, out: Path, real: Path, protect: tuple[Path, ...]) 
                 if target.parent not in made:
                     target.parent.mkdir(parents=True, exist_ok=True)
                     made.add(target.parent)
-                with open(target, "xb") as f:
-                    f.write(files[rel])
+                content = files[rel]
+                if isinstance(content, FileRef):
+                    _link_or_copy(content.path, target)
+                else:
+                    with open(target, "xb") as f:
+                        f.write(content)
             if epoch is not None:  # reproducible archives of the site: every mtime from SOURCE_DATE_EPOCH
                 for d, _, names in sorted(os.walk(tmp), reverse=True):
                     for n in names:

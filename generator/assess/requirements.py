@@ -53,6 +53,14 @@ class Assessment:
         return self.design_rows + list(unit_rows(self.columns, self.table,
                                                  self.rule.uncertainty is not None))
 
+    def unit_count(self, verdict: str | None = None) -> int:
+        """Units assessed, or those with ``verdict`` (from the codes, without the entries)."""
+        if self.table is None or not len(self.table):
+            return 0
+        if verdict is None:
+            return len(self.table)
+        return int(np.count_nonzero(np.asarray(self.unit_codes) == CODES.index(verdict)))
+
     def _unit_rows(self, units=None):
         if self.table is None or not self.columns:
             return iter(())

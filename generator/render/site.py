@@ -9,7 +9,7 @@ import json
 
 import numpy as np
 
-from ..publish import SiteFiles
+from ..publish import SiteFiles, content_bytes
 from .contexts import IndexContext, SpecContext
 from .lots import _units_view, lot_pages, page_names
 from .pages import (CAUTION, CAUTION_CATEGORIES, decision_text, environment, fmt, methods, render_markdown,
@@ -122,7 +122,7 @@ def spec_context(e, figs, site_url: str | None = None, history=None) -> SpecCont
                for f in d.spectra.values()]
     npm = [[fmt(x, 6) for x in row] for row in d.npm] if d.npm else None
     npm_inv = [[fmt(x, 6) for x in row] for row in d.npm_inverse] if d.npm_inverse else None
-    n_fail_units = sum(u["verdict"] == "fail" for u in a.units)
+    n_fail_units = a.unit_count("fail")
     ctx = {
         "spec": {"id": spec.id, "title": spec.title, "product": spec.product, "revision": spec.revision,
                  "status": spec.status, "file": spec.file, "observer": spec.observer,
@@ -130,7 +130,7 @@ def spec_context(e, figs, site_url: str | None = None, history=None) -> SpecCont
                  "inherited": sorted(spec.inherited.items())},
         "verdict": a.verdict, "verdict_symbol": SYMBOLS[a.verdict],
         "counts": {"rows": counts["rows"], "fail": counts["fail"], "indeterminate": counts["indeterminate"],
-                   "units": len(a.units), "units_fail": n_fail_units},
+                   "units": a.unit_count(), "units_fail": n_fail_units},
         "failing": failing, "failing_more": max(0, n_failing - 12),
         "figures": [{**{k: f[k] for k in ("key", "file", "csv", "json", "title", "alt", "axes", "rows", "tolerances",
                                              "width", "height")},
@@ -191,7 +191,7 @@ def index_context(evaluated, site_url: str | None = None) -> IndexContext:
                 "cct": fmt(d.white["cct_K"], 0) + " K" if d.white else "—",
                 "duv": fmt(d.white["duv"], 4) if d.white else "—",
                 "n_units": n_units(e),
-                "n_fail": sum(u["verdict"] == "fail" for u in a.units)}
+                "n_fail": a.unit_count("fail")}
         item["search"] = " ".join([s.id, s.title, s.product, family, s.revision, s.status, a.verdict, *keys]).lower()
         items.append(item)
     groups = []
@@ -261,26 +261,30 @@ def render_site(evaluated, results: dict, cache=None, histories=None, *, site_ur
     for e in evaluated:
         if cache is not None:
             keys[e.spec.id] = spec_key(e.spec, by_id, _key_extra(history_of[e.spec.id], site_url, reload))
-            got = cache.get(keys[e.spec.id])
+            got = cache.get(keys[e.spec.id], refs=True)
             if got is not None and "results.json" in got:
                 files_of[e.spec.id] = got
     todo = [e for e in evaluated if e.spec.id not in files_of]
 
-    def draw(i: int) -> dict[str, bytes]:
+    def draw(i: int) -> dict:
+        """The spec's files; with a cache, stored there by the worker that drew them and
+        passed back as FileRefs (published as hard links: the bytes are written once)."""
         e = todo[i]
-        return spec_files(e, env, history_of[e.spec.id], site_url, reload, entries.get(e.spec.id))
+        files = spec_files(e, env, history_of[e.spec.id], site_url, reload, entries.get(e.spec.id))
+        refs = cache.put(keys[e.spec.id], files) if cache is not None else None
+        return refs if refs is not None else files
 
     for e, files in zip(todo, map_indexed(draw, len(todo), jobs), strict=True):
         files_of[e.spec.id] = files
         if cache is not None:
-            cache.put(keys[e.spec.id], files)
+            cache.used.add(keys[e.spec.id])       # put in a worker marks its own copy
     entry_texts = {}
     for e in evaluated:
         files = files_of[e.spec.id]
         n_fig += sum(name.endswith(".svg") for name in files)
         for name in sorted(files):
             site.add(f"{e.spec.id}/{name}", files[name])
-        entry_texts[e.spec.id] = files["results.json"]
+        entry_texts[e.spec.id] = content_bytes(files["results.json"])
     ictx = index_context(evaluated, site_url)
     ictx["reload"] = reload
     site.add("index.html", env.get_template("index.html").render(**ictx))
