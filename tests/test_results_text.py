@@ -63,3 +63,17 @@ def test_unit_rows_written_from_the_columns_equal_the_encoded_row_dicts(tmp_path
     for e in evaluated:
         assert entry_text(e.spec, e.derived, e.assessment) == dumps_entry(
             spec_result(e.spec, e.derived, e.assessment)), e.spec.id
+
+
+def test_numbers_cut_from_one_encoded_list_equal_each_number_encoded_alone():
+    import numpy as np
+
+    from generator.assess.units import _num
+    from generator.render.unit_rows import _num_texts, _texts
+
+    vals = np.array([0.1, -0.0, 1e-300, 5e-324, 1e22, 123456.789, float("nan"), float("inf"), -float("inf"), 2.0])
+    assert _num_texts(vals) == [json.dumps(_num(v)) for v in vals.tolist()]
+    ints = np.array([0, -3, 7])
+    assert _num_texts(ints) == ["0", "-3", "7"]
+    assert _num_texts(np.array([])) == []
+    assert _texts([0.0008, 5.2, 1e-05], ", u: ") == [", u: 0.0008", ", u: 5.2", ", u: 1e-05"]

@@ -12,6 +12,7 @@ import io
 import json
 import pickle
 import re
+from math import isfinite
 from collections import OrderedDict
 
 import numpy as np
@@ -81,19 +82,23 @@ def _unit_points(e, channels, idx, after=()):
     ``after``."""
     a, t = e.assessment, e.assessment.table
     colours = e.spec.unit_colours if (after or channels != ["white"]) else {}
+    idx = np.asarray(idx, dtype=np.intp)
+    verdicts = [("pass", "indeterminate", "fail")[k] for k in a.unit_codes[idx].tolist()]
+    serials = [t.serial[i] for i in idx.tolist()]
+    before = [(c, t.channels[c][idx, :2].tolist()) for c in channels]
+    later = [(c, t.channels[c][idx, :2].tolist()) for c in after]
     out = []
-    for i in idx.tolist():
-        v = ("pass", "indeterminate", "fail")[a.unit_codes[i]]
-        for c in channels:
-            m = t.channels[c][i]
-            if np.isfinite(m[0]):
-                out.append((f"{t.serial[i]} {c}", (float(m[0]), float(m[1])), v))
-        for name, m in colours.get(t.serial[i], {}).items():
-            out.append((f"{t.serial[i]} {name}", tuple(m.xy), v))
-        for c in after:
-            m = t.channels[c][i]
-            if np.isfinite(m[0]):
-                out.append((f"{t.serial[i]} {c}", (float(m[0]), float(m[1])), v))
+    for k, (serial, v) in enumerate(zip(serials, verdicts, strict=True)):
+        for c, pts in before:
+            x, y = pts[k]
+            if isfinite(x):
+                out.append((f"{serial} {c}", (x, y), v))
+        for name, m in colours.get(serial, {}).items():
+            out.append((f"{serial} {name}", tuple(m.xy), v))
+        for c, pts in later:
+            x, y = pts[k]
+            if isfinite(x):
+                out.append((f"{serial} {c}", (x, y), v))
     return out
 
 

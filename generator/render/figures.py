@@ -10,6 +10,7 @@ from __future__ import annotations
 import inspect
 from dataclasses import dataclass
 from functools import cache, lru_cache
+from math import isfinite
 
 import numpy as np
 
@@ -192,7 +193,7 @@ def _corner(ax: S.Axes, where: str, size, pad: float = 3.5):
 
 def unit_keys(units) -> list[Key]:
     """Legend entries of the verdicts drawn (a unit without a finite point draws nothing)."""
-    present = {v for _, xy, v in units if np.isfinite(np.asarray(xy, dtype=float)).all()}
+    present = {v for _, (x, y), v in units if isfinite(x) and isfinite(y)}
     return [Key(f"unit: {v}", marker=MARKERS[v], marker_size=5, marker_fill="none" if v == "pass" else PALETTE[v],
                 marker_stroke=PALETTE[v]) for v in ("pass", "indeterminate", "fail") if v in present]
 

@@ -8,6 +8,8 @@ from __future__ import annotations
 
 import json
 
+import numpy as np
+
 from ..assess.units import UNITS
 from ..assess.units import _num as _value     # NaN and infinities as None, as in every unit row
 from ..assess.rules import CODES
@@ -18,11 +20,6 @@ _FIXED = ("id", "subject", "sample", "quantity", "value", "unit", "limit", "verd
 
 def _j(v) -> str:
     return json.dumps(v, ensure_ascii=False, allow_nan=False)
-
-
-def _num(v) -> str:
-    # assess.units._num: NaN and infinities are written as null
-    return repr(v) if v == v and v not in (float("inf"), float("-inf")) else "null"
 
 
 def _row_dict(c, i: int, serial: str, lot: str, U) -> dict:
@@ -57,8 +54,8 @@ def _column_texts(c, serials, lots, serials_j, lots_j, with_uncertainty: bool) -
         values = [f'{{"dx": {_j(a)}, "dy": {_j(b)}}}'
                   for a, b in zip(c.parts["dx"].tolist(), c.parts["dy"].tolist(), strict=True)]
     else:
-        values = [_num(v) for v in c.value.tolist()]
-    margins = [_num(v) for v in c.margin.tolist()]
+        values = _num_texts(c.value)
+    margins = _num_texts(c.margin)
     unc = _texts(U, ', "uncertainty": ') if U is not None else [""] * n
     return [None if code[i] < 0 else
             (head + serials_j[i] + mid + values[i] + tail + verdicts[code[i]] + ', "margin": ' + margins[i]
@@ -66,15 +63,25 @@ def _column_texts(c, serials, lots, serials_j, lots_j, with_uncertainty: bool) -
             for i in range(n)]
 
 
+def _split(text: str, n: int) -> list[str]:
+    # the JSON text of a list of n numbers, cut into its items (a number's text has no ", ")
+    return text[1:-1].split(", ") if n else []
+
+
 def _texts(values: list, prefix: str) -> list[str]:
-    """``prefix + json.dumps(value)`` of each value; a finite float's JSON text is its repr."""
-    fin = float.__repr__
-    return [prefix + (fin(u) if type(u) is float and u - u == 0.0 else _j(u)) for u in values]
+    """``prefix + json.dumps(value)`` of each number, the whole list by the C encoder."""
+    return [prefix + t for t in _split(json.dumps(values, allow_nan=False), len(values))]
+
+
+def _num_texts(arr) -> list[str]:
+    """``_num`` of each item of a numeric array: its JSON text, "null" where not finite."""
+    texts = _split(json.dumps(arr.tolist(), allow_nan=True), arr.size)
+    for i in np.flatnonzero(~np.isfinite(arr)).tolist():
+        texts[i] = "null"
+    return texts
 
 
 def _broadcast(U, n: int) -> list:
-    import numpy as np
-
     return np.broadcast_to(U, (n,)).tolist()
 
 
