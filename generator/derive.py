@@ -48,11 +48,15 @@ class GamutFigures:
 
 @cache
 def _reference_volume(primaries: tuple, white: tuple) -> tuple[float, tuple | None]:
-    """CIELAB volume of a reference space with its own white, and its NPM (cached: constant)."""
+    """CIELAB volume of a reference space with its own white, and its NPM (constant: kept for
+    the process and in the table cache, generator/tablecache.py)."""
+    from .tablecache import stored_arrays
+
     M = npm_from_primaries(list(primaries), white)
     if not np.all(np.isfinite(M)):
         return float("nan"), None
-    return lab_gamut_volume(M), tuple(map(tuple, M))
+    V = stored_arrays("lab-volume", repr((primaries, white)), lambda: {"volume": np.array(lab_gamut_volume(M))})
+    return float(V["volume"]), tuple(map(tuple, M))
 
 
 def volume_figures(npm, spec: Spec, coverage_refs) -> dict | None:

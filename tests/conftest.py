@@ -9,6 +9,23 @@ from pathlib import Path
 import pytest
 
 ROOT = Path(__file__).resolve().parent.parent
+
+
+def pytest_configure(config):
+    """Tables cached between processes (generator/tablecache.py) go to a folder of this run,
+    not the user's cache; subprocesses of the tests inherit it."""
+    if "COLOURSPEC_CACHE" not in os.environ:
+        import tempfile
+
+        config._table_cache = tempfile.mkdtemp(prefix="colourspec-tables-")
+        os.environ["COLOURSPEC_CACHE"] = config._table_cache
+
+
+def pytest_unconfigure(config):
+    folder = getattr(config, "_table_cache", None)
+    if folder:
+        shutil.rmtree(folder, ignore_errors=True)
+        os.environ.pop("COLOURSPEC_CACHE", None)
 DEMO_SPECS = ROOT / "specs"
 
 

@@ -85,9 +85,30 @@ def _hermite_coefficients(uv, d):
     return np.ascontiguousarray(c.reshape(len(p0), 8))
 
 
+_TABLE_ARRAYS = ("mired", "uv", "duv_dmired", "coef", "grid_mired", "grid_fast")
+
+
 @lru_cache(maxsize=4)
 def locus_table(observer: str = "cie1931-2") -> LocusTable:
-    """The Planckian locus table of ``observer`` (built once per process)."""
+    """The Planckian locus table of ``observer``: built once per process, or read from the
+    table cache (generator/tablecache.py) where an earlier process stored it."""
+    from ..tablecache import stored_arrays
+
+    def arrays():
+        t = build_locus_table(observer)
+        return {**{k: getattr(t, k) for k in _TABLE_ARRAYS},
+                "grid_origin": np.array(t.grid_origin), "tube": np.array(t.tube)}
+
+    a = stored_arrays("planck-locus", f"{observer} {MIRED_LO} {MIRED_HI} {MIRED_STEP} {GRID_STEP} {TUBE}", arrays)
+    for k in _TABLE_ARRAYS:
+        a[k].setflags(write=False)
+    return LocusTable(observer, a["mired"], a["uv"], a["duv_dmired"], a["coef"],
+                      (float(a["grid_origin"][0]), float(a["grid_origin"][1])), a["grid_mired"], a["grid_fast"],
+                      float(a["tube"]))
+
+
+def build_locus_table(observer: str = "cie1931-2") -> LocusTable:
+    """The Planckian locus table of ``observer``, computed from Planck's law and the CMFs."""
     mired = np.arange(MIRED_LO, MIRED_HI + MIRED_STEP / 2, MIRED_STEP)
     T = 1e6 / mired
     # in blocks: the (nodes x wavelengths) temporaries then stay in cache
