@@ -77,17 +77,31 @@ class FileRef:
         return f"FileRef({str(self.path)!r})"
 
 
-def content_bytes(content: bytes | FileRef) -> bytes:
-    return content.read() if isinstance(content, FileRef) else content
+class Parts:
+    """Content given as pieces (bytes or memoryviews) written one after the other, never
+    joined in memory (a lot library's results.json is hundreds of MB)."""
+
+    __slots__ = ("parts",)
+
+    def __init__(self, parts: list) -> None:
+        self.parts = parts
+
+    def read(self) -> bytes:
+        return b"".join(self.parts)
+
+
+def content_bytes(content: bytes | FileRef | Parts) -> bytes:
+    return content.read() if isinstance(content, (FileRef, Parts)) else content
 
 
 class SiteFiles:
-    """A site to publish: relative POSIX path -> bytes, or a FileRef to a file holding them."""
+    """A site to publish: relative POSIX path -> bytes, a FileRef to a file holding them, or
+    Parts."""
 
     def __init__(self) -> None:
-        self.files: dict[str, bytes | FileRef] = {}
+        self.files: dict[str, bytes | FileRef | Parts] = {}
 
-    def add(self, rel: str, content: str | bytes | FileRef) -> None:
+    def add(self, rel: str, content: str | bytes | FileRef | Parts) -> None:
         p = PurePosixPath(rel)
         if (p.is_absolute() or ".." in p.parts or not p.parts or rel != str(p) or "\\" in rel
                 or any(ord(c) < 32 for c in rel)):
@@ -260,7 +274,10 @@ def _publish(site: SiteFiles, out: Path, real: Path, protect: tuple[Path, ...]) 
                     _link_or_copy(content.path, target)
                 else:
                     with open(target, "xb") as f:
-                        f.write(content)
+                        if isinstance(content, Parts):
+                            f.writelines(content.parts)
+                        else:
+                            f.write(content)
             if epoch is not None:  # reproducible archives of the site: every mtime from SOURCE_DATE_EPOCH
                 for d, _, names in sorted(os.walk(tmp), reverse=True):
                     for n in names:

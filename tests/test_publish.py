@@ -390,3 +390,51 @@ def test_a_previous_site_with_spec_files_put_into_it_is_not_replaced(tmp_path):
         publish(site_of({"index.html": "two"}), out)
     assert str(e.value) == f"refusing to replace {out}: it holds spec files and is not a built site"
     assert (out / "index.html").read_text(encoding="utf-8") == "one"
+
+
+def test_file_refs_are_published_as_hard_links_and_parts_as_their_bytes(tmp_path):
+    src = tmp_path / "stored" / "0"
+    src.parent.mkdir()
+    src.write_bytes(b"<svg>stored</svg>")
+    s = SiteFiles()
+    s.add("a/figure.svg", P.FileRef(src))
+    s.add("results.json", P.Parts([b"{\n", memoryview(b'  "x": 1xx')[:8], b"\n}\n"]))
+    out = publish(s, tmp_path / "site")
+    assert (out / "a" / "figure.svg").read_bytes() == b"<svg>stored</svg>"
+    assert os.path.samefile(out / "a" / "figure.svg", src)           # no bytes written again
+    assert (out / "results.json").read_bytes() == b'{\n  "x": 1\n}\n'
+
+
+def test_file_refs_are_copied_where_links_are_refused(tmp_path, monkeypatch):
+    import errno
+
+    src = tmp_path / "stored"
+    src.write_bytes(b"bytes of a cached page")
+
+    def refuse(*_a, **_k):
+        raise OSError(errno.EXDEV, "Invalid cross-device link")
+
+    monkeypatch.setattr(P.os, "link", refuse)
+    s = SiteFiles()
+    s.add("page.html", P.FileRef(src))
+    out = publish(s, tmp_path / "site")
+    assert (out / "page.html").read_bytes() == b"bytes of a cached page"
+    assert not os.path.samefile(out / "page.html", src)
+
+
+def test_an_incremental_build_links_unchanged_pages_to_the_cache_and_matches_a_clean_build(tmp_path, monkeypatch):
+    from generator.build import build
+    from generator.cache import cache_dir_for
+
+    from .conftest import copy_demo
+
+    monkeypatch.chdir(tmp_path)
+    specs = copy_demo(tmp_path)
+    build(specs, tmp_path / "site")
+    first = snapshot(tmp_path / "site")
+    build(specs, tmp_path / "site")                                     # every page from the cache
+    assert snapshot(tmp_path / "site") == first
+    cache = cache_dir_for(tmp_path / "site")
+    linked = [p for p in (tmp_path / "site").rglob("index.html") if p.parent.name != "site"
+              and p.stat().st_nlink > 1]
+    assert linked and all(any(os.path.samefile(p, c) for c in cache.rglob("*") if c.is_file()) for p in linked[:2])

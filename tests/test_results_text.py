@@ -77,3 +77,19 @@ def test_numbers_cut_from_one_encoded_list_equal_each_number_encoded_alone():
     assert _num_texts(ints) == ["0", "-3", "7"]
     assert _num_texts(np.array([])) == []
     assert _texts([0.0008, 5.2, 1e-05], ", u: ") == [", u: 0.0008", ", u: 5.2", ", u: 1e-05"]
+
+
+def test_the_document_written_in_parts_is_the_document_joined():
+    from generator.publish import Parts
+    from generator.render.results import document_parts
+
+    other = dict(ENTRY, id="b", verdict="fail", requirements=[], units=[])
+    doc = results_document([], ["pass", "fail"])
+    texts = [dumps_entry(ENTRY), dumps_entry(other)]
+    joined = dumps_from_entries(doc, texts)
+    assert Parts(document_parts(doc, [t.encode("utf-8") for t in texts])).read() == joined.encode("utf-8")
+    # entries with no final newline, or several, are cut as rstrip("\n") cuts them
+    odd = [texts[0].rstrip("\n"), texts[1] + "\n\n"]
+    assert (Parts(document_parts(doc, [t.encode() for t in odd])).read()
+            == dumps_from_entries(doc, odd).encode("utf-8"))
+    assert b"".join(document_parts(doc, [])) == dumps_from_entries(doc, []).encode("utf-8")

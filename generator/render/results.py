@@ -85,17 +85,32 @@ def dumps_entry(entry: dict) -> str:
 def dumps_from_entries(doc: dict, entry_texts: list) -> str | bytes:
     """``dumps(doc)`` for a document whose "specs" entries are already encoded by
     ``dumps_entry`` (so an incremental build encodes only the specs that changed); the
-    entries as str give str, as UTF-8 bytes give bytes (no decoding of large entries)."""
+    entries as str give str, as UTF-8 bytes give bytes (``document_parts`` joined)."""
+    if entry_texts and isinstance(entry_texts[0], bytes):
+        return b"".join(document_parts(doc, entry_texts))
     head = json.dumps({**doc, "specs": []}, indent=2, ensure_ascii=False, allow_nan=False) + "\n"
-    as_bytes = bool(entry_texts) and isinstance(entry_texts[0], bytes)
-    if as_bytes:
-        head = head.encode("utf-8")
     if not entry_texts:
         return head
-    nl, pad = ("\n", "    ") if not as_bytes else (b"\n", b"    ")
-    body = (b",\n" if as_bytes else ",\n").join(pad + t.rstrip(nl).replace(nl, nl + pad) for t in entry_texts)
-    tail = ("[\n", "\n  ]\n}\n") if not as_bytes else (b"[\n", b"\n  ]\n}\n")
-    return head[: -len("[]\n}\n")] + tail[0] + body + tail[1]
+    body = ",\n".join("    " + t.rstrip("\n").replace("\n", "\n    ") for t in entry_texts)
+    return head[: -len("[]\n}\n")] + "[\n" + body + "\n  ]\n}\n"
+
+
+def document_parts(doc: dict, entry_texts: list[bytes]) -> list:
+    """``dumps_from_entries`` of UTF-8 entries as a list of pieces to write one after the
+    other (a lot library's document is hundreds of MB: each entry is copied once, to indent
+    it, and never joined)."""
+    head = (json.dumps({**doc, "specs": []}, indent=2, ensure_ascii=False, allow_nan=False) + "\n").encode("utf-8")
+    if not entry_texts:
+        return [head]
+    parts = [head[: -len("[]\n}\n")], b"[\n"]
+    for k, t in enumerate(entry_texts):
+        trailing = 0
+        while trailing < len(t) and t[len(t) - 1 - trailing] == 0x0A:     # as t.rstrip(b"\n"), without a copy
+            trailing += 1
+        indented = t.replace(b"\n", b"\n    ")                           # each newline gains the 4-space pad
+        parts += [b",\n    " if k else b"    ", memoryview(indented)[: len(indented) - 5 * trailing]]
+    parts.append(b"\n  ]\n}\n")
+    return parts
 
 
 def entry_text(spec, derived, assessment) -> str:

@@ -9,12 +9,12 @@ import json
 
 import numpy as np
 
-from ..publish import SiteFiles, content_bytes
+from ..publish import Parts, SiteFiles, content_bytes
 from .contexts import IndexContext, SpecContext
 from .lots import _units_view, lot_pages, page_names
 from .pages import (CAUTION, CAUTION_CATEGORIES, decision_text, environment, fmt, methods, render_markdown,
                     row_view, templates_dir)
-from .results import dumps_entry, dumps_from_entries, entry_text
+from .results import document_parts, dumps_entry, entry_text
 from .swatch import swatch_hex
 
 SYMBOLS = {"pass": "✓", "fail": "✗", "indeterminate": "?"}
@@ -288,7 +288,7 @@ def render_site(evaluated, results: dict, cache=None, histories=None, *, site_ur
     ictx = index_context(evaluated, site_url)
     ictx["reload"] = reload
     site.add("index.html", env.get_template("index.html").render(**ictx))
-    site.add("results.json", dumps_from_entries(results, [entry_texts[e.spec.id] for e in evaluated]))
+    site.add("results.json", Parts(document_parts(results, [entry_texts[e.spec.id] for e in evaluated])))
     static = templates_dir() / "static"
     for p in sorted(static.rglob("*")):
         if p.is_file():
