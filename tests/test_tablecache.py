@@ -97,3 +97,16 @@ def test_a_reference_space_volume_read_back_is_the_computed_volume(store):
     assert first == again
     assert again[0] == lab_gamut_volume(npm_from_primaries(list(prim), white))
     assert len(list(store.glob("lab-volume-*.npz"))) == 1
+
+
+def test_compiled_templates_are_kept_and_a_damaged_one_is_compiled_again(store):
+    from generator.render.pages import environment
+
+    ctx = {"root": "", "canonical": "", "reload": False}
+    first = environment().get_template("base.html").render(**ctx)
+    kept = list((store / "templates").iterdir())
+    assert kept
+    assert environment().get_template("base.html").render(**ctx) == first
+    for p in kept:
+        p.write_bytes(b"j2\x00 damaged")
+    assert environment().get_template("base.html").render(**ctx) == first
