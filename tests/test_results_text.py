@@ -93,3 +93,15 @@ def test_the_document_written_in_parts_is_the_document_joined():
     assert (Parts(document_parts(doc, [t.encode() for t in odd])).read()
             == dumps_from_entries(doc, odd).encode("utf-8"))
     assert b"".join(document_parts(doc, [])) == dumps_from_entries(doc, []).encode("utf-8")
+
+
+def test_unit_entries_written_by_template_equal_their_json():
+    from generator.render.unit_rows import unit_entry_texts
+
+    units = [{"serial": s, "lot": "L\u00e9 1", "supplier": 'Sup "Q"', "verdict": v, "rows": n,
+              "failing": f, "source": "specs/m.csv:2"}
+             for s, v, n, f in [("S-1", "pass", 8, []), ("S\\2\t", "fail", 3, ["white.cct", "gamut.x.coverage.uv"]),
+                                ("Ω-3", "indeterminate", 0, ["a"])]]
+    odd = [{"serial": "x", "lot": "y"}, dict(units[0], rows=True), dict(units[0], extra=1)]
+    for u, t in zip(units + odd, unit_entry_texts(units + odd), strict=True):
+        assert t == json.dumps(u, ensure_ascii=False, allow_nan=False)

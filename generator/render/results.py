@@ -116,10 +116,11 @@ def document_parts(doc: dict, entry_texts: list[bytes]) -> list:
 def entry_text(spec, derived, assessment) -> str:
     """``dumps_entry(spec_result(...))`` without building a dict per unit row: the unit rows
     are written from the assessment's columns (a 100,000-unit lot has ~10⁶ of them)."""
-    from .unit_rows import unit_rows_json
+    from .unit_rows import unit_entry_texts, unit_rows_json
 
     entry = spec_result(spec, derived, assessment, unit_rows=False)
     texts = [json.dumps(r, ensure_ascii=False, allow_nan=False) for r in entry["requirements"]]
     if assessment.table is not None:
         texts += unit_rows_json(assessment.columns, assessment.table, assessment.rule.uncertainty is not None)
-    return dumps_one_per_line(entry, ONE_PER_LINE, encoded={"requirements": texts})
+    return dumps_one_per_line(entry, ONE_PER_LINE,
+                              encoded={"requirements": texts, "units": unit_entry_texts(entry["units"])})

@@ -98,3 +98,32 @@ def unit_rows_json(cols: list, table, with_uncertainty: bool) -> list[str]:
     serials_j, lots_j = [enc(s) for s in serials], [enc(s) for s in lots]
     per_col = [_column_texts(c, serials, lots, serials_j, lots_j, with_uncertainty) for c in cols]
     return [t for i in range(len(serials)) for col in per_col if (t := col[i]) is not None]
+
+
+_ENTRY_KEYS = ("serial", "lot", "supplier", "verdict", "rows", "failing", "source")
+
+
+def unit_entry_texts(units: list[dict]) -> list[str]:
+    """``json.dumps(entry, ensure_ascii=False)`` of each unit entry (assess.requirements
+    .unit_entries: strings, an int and a list of strings, in ``_ENTRY_KEYS`` order), the
+    strings by the C string encoder json.dumps uses (tested equal)."""
+    enc = json.encoder.encode_basestring
+    memo: dict[str, str] = {}
+
+    def e(s: str) -> str:
+        t = memo.get(s)
+        if t is None:
+            t = memo[s] = enc(s)
+        return t
+
+    out = []
+    for u in units:
+        if tuple(u) != _ENTRY_KEYS or type(u["rows"]) is not int or not all(
+                type(u[k]) is str for k in ("serial", "lot", "supplier", "verdict", "source")):
+            out.append(_j(u))
+            continue
+        failing = ", ".join(e(f) for f in u["failing"])
+        out.append(f'{{"serial": {enc(u["serial"])}, "lot": {e(u["lot"])}, "supplier": {e(u["supplier"])}, '
+                   f'"verdict": {e(u["verdict"])}, "rows": {u["rows"]}, "failing": [{failing}], '
+                   f'"source": {enc(u["source"])}}}')
+    return out
