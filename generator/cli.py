@@ -108,6 +108,9 @@ def _report_problems(problems) -> None:
               file=sys.stderr)
 
 
+NAMED_FAILS = 10    # failing specs named on the summary line
+
+
 def _verdict_line(summary) -> str:
     n = len(summary.evaluated)
     fails = summary.failing
@@ -115,7 +118,9 @@ def _verdict_line(summary) -> str:
     parts = [f"{len(fails)} fail" if fails else "all pass"]
     if ind:
         parts.append(f"{len(ind)} indeterminate")
-    return f"{n} spec{'s' if n != 1 else ''}: {', '.join(parts)}" + (f" ({', '.join(fails)})" if fails else "")
+    named = ", ".join(fails[:NAMED_FAILS]) + (f" and {len(fails) - NAMED_FAILS} more: see results.json"
+                                              if len(fails) > NAMED_FAILS else "")
+    return f"{n} spec{'s' if n != 1 else ''}: {', '.join(parts)}" + (f" ({named})" if fails else "")
 
 
 def _write_out(path: str, text: str) -> None:

@@ -255,3 +255,14 @@ def test_build_reuses_unchanged_pages_and_clean_draws_everything(spec_dir, tmp_p
     assert "reused" not in first.stdout and "reused" not in clean.stdout
     assert "; 1 unchanged pages reused)" in again.stdout
     assert (tmp_path / ".site.cache").is_dir() and not any((out / n).exists() for n in (".cache", ".site.cache"))
+
+
+def test_the_summary_line_names_at_most_ten_failing_specs_and_counts_the_rest(spec_dir):
+    failing = PASSING.replace("min: 99", "min: 101, max: 120").replace("metric: coverage", "metric: area-ratio")
+    for k in range(12):
+        spec_dir(f"tiny-{k:02d}.yaml", failing.replace("id: tiny-panel", f"id: tiny-{k:02d}"))
+    r = run("check", str(spec_dir.dir))
+    assert r.returncode == 1
+    line = [x for x in r.stderr.splitlines() if x.startswith("Checked")][0]
+    assert "12 specs: 12 fail (tiny-00, tiny-01," in line
+    assert "tiny-09 and 2 more: see results.json)" in line and "tiny-10" not in line
