@@ -147,8 +147,9 @@ def build(specs_path: Path, out: Path, *, clean: bool = False, incremental: bool
                                            site_url=site_url, reload=reload, jobs=jobs)
     t2 = time.perf_counter()
     stages["render"] = t2 - t1
-    publish(site, out, protect=(specs_path,))
+    real = publish(site, out, protect=(specs_path,))
     if cache is not None:
+        cache.save_index(real / "results.json")
         cache.prune()
     if memo is not None:
         memo.prune()

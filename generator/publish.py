@@ -77,9 +77,29 @@ class FileRef:
         return f"FileRef({str(self.path)!r})"
 
 
+class Span:
+    """``length`` bytes of a file from ``offset`` (a piece of the previous site's results.json
+    that has not changed): copied by the kernel (copy_file_range) where it can."""
+
+    __slots__ = ("path", "offset", "length")
+
+    def __init__(self, path: Path, offset: int, length: int) -> None:
+        self.path, self.offset, self.length = Path(path), offset, length
+
+    def read(self) -> bytes:
+        with open(self.path, "rb") as f:
+            data = os.pread(f.fileno(), self.length, self.offset)
+        if len(data) != self.length:
+            raise OSError(errno.EIO, "the file is shorter than it was", str(self.path))
+        return data
+
+    def __len__(self) -> int:
+        return self.length
+
+
 class Parts:
-    """Content given as pieces (bytes or memoryviews) written one after the other, never
-    joined in memory (a lot library's results.json is hundreds of MB)."""
+    """Content given as pieces (bytes, memoryviews or Spans) written one after the other,
+    never joined in memory (a lot library's results.json is hundreds of MB)."""
 
     __slots__ = ("parts",)
 
@@ -87,7 +107,27 @@ class Parts:
         self.parts = parts
 
     def read(self) -> bytes:
-        return b"".join(self.parts)
+        return b"".join(p.read() if isinstance(p, Span) else p for p in self.parts)
+
+
+def _write_parts(f, parts: list) -> None:
+    for p in parts:
+        if not isinstance(p, Span):
+            f.write(p)
+            continue
+        f.flush()
+        with open(p.path, "rb") as src:
+            offset, left = p.offset, p.length
+            try:
+                while left:
+                    n = os.copy_file_range(src.fileno(), f.fileno(), left, offset)
+                    if n <= 0:
+                        raise OSError(errno.EIO, "the file is shorter than it was", str(p.path))
+                    offset, left = offset + n, left - n
+            except (AttributeError, OSError) as e:      # no copy_file_range here: copy through memory
+                if isinstance(e, OSError) and e.errno == errno.EIO:
+                    raise
+                f.write(os.pread(src.fileno(), left, offset))
 
 
 def content_bytes(content: bytes | FileRef | Parts) -> bytes:
@@ -275,7 +315,7 @@ def _publish(site: SiteFiles, out: Path, real: Path, protect: tuple[Path, ...]) 
                 else:
                     with open(target, "xb") as f:
                         if isinstance(content, Parts):
-                            f.writelines(content.parts)
+                            _write_parts(f, content.parts)
                         else:
                             f.write(content)
             if epoch is not None:  # reproducible archives of the site: every mtime from SOURCE_DATE_EPOCH

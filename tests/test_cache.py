@@ -79,7 +79,7 @@ def test_the_cache_is_a_hidden_folder_beside_the_site_and_never_inside_it(librar
     by_id = {e.spec.id: e.spec for e in evaluated}
     assert C.cache_dir_for(out) == tmp_path / ".site.cache"
     assert sorted(p.name for p in (tmp_path / ".site.cache").iterdir()) == sorted(
-        [C.spec_key(e.spec, by_id) for e in evaluated] + ["evaluated"])    # pages, and the memo
+        [C.spec_key(e.spec, by_id) for e in evaluated] + ["evaluated", C.INDEX])   # pages, memo, index
     assert not any("cache" in rel or "manifest" in rel for rel in files_of(out))
 
 
@@ -96,7 +96,7 @@ def test_entries_no_build_uses_are_pruned(library, tmp_path):
     (C.cache_dir_for(out) / "stale-entry").mkdir()
     (library.dir / "d.yaml").unlink()
     build(library.dir, out)
-    names = sorted(p.name for p in C.cache_dir_for(out).iterdir() if p.name != "evaluated")
+    names = sorted(p.name for p in C.cache_dir_for(out).iterdir() if p.name not in C.KEEP)
     assert len(names) == 3 and "stale-entry" not in names
     assert len(list((C.cache_dir_for(out) / "evaluated").iterdir())) == 3   # the memo is pruned too
 
@@ -106,7 +106,8 @@ def test_a_damaged_entry_is_drawn_again(library, tmp_path):
     build(library.dir, out)
     before = files_of(out)
     for entry in C.cache_dir_for(out).iterdir():
-        (entry / "manifest.json").write_text("{not json")
+        if entry.name not in C.KEEP:
+            (entry / "manifest.json").write_text("{not json")
     assert build(library.dir, out).reused == 0
     assert files_of(out) == before
 
@@ -333,3 +334,44 @@ def test_a_cached_spec_brings_back_its_spectra_and_volume_figures_with_their_num
     assert all(files[name] == site[f"s/{name}"] for name in files)
     assert build(spec_dir.dir, out).reused == 1
     assert files_of(out) == site
+
+
+def test_unchanged_entries_are_copied_from_the_published_results_unless_that_file_changed(library, tmp_path):
+    """The site's results.json takes unchanged specs' entries from the previous one (where
+    the index beside the cache still matches that file); edited in place, it is not used."""
+    import os
+
+    from generator.publish import Span
+    from generator.render import site as site_mod
+
+    out, ref = tmp_path / "site", tmp_path / "clean"
+    build(library.dir, out)
+    cache = C.Cache(C.cache_dir_for(out))
+    published, entries = cache.previous_entries()
+    assert published == (out / "results.json").resolve() and len(entries) == 4
+    text = published.read_bytes()
+    for off, n in entries.values():
+        assert text[off:off + 1] == b"{" and text[off + n - 1:off + n] == b"}"
+
+    spans = []
+    real_parts = site_mod.Parts
+    site_mod.Parts = lambda parts: spans.extend(p for p in parts if isinstance(p, Span)) or real_parts(parts)
+    try:
+        (library.dir / "d.yaml").write_text((library.dir / "d.yaml").read_text().replace("title: ", "title: New "))
+        build(library.dir, out)
+    finally:
+        site_mod.Parts = real_parts
+    assert len(spans) == 3                                    # a, b, c copied; d written anew
+    build(library.dir, ref, incremental=False)
+    assert files_of(out) == files_of(ref)
+
+    damaged = bytearray((out / "results.json").read_bytes())     # the same size, other bytes
+    damaged[damaged.index(b'"id"')] = ord("X")
+    with open(out / "results.json", "r+b") as f:
+        f.write(bytes(damaged))
+    os.utime(out / "results.json", ns=(1, 1))
+    assert C.Cache(C.cache_dir_for(out)).previous_entries() is None
+    (library.dir / "d.yaml").write_text((library.dir / "d.yaml").read_text().replace("title: New ", "title: "))
+    build(library.dir, out)
+    build(library.dir, ref, incremental=False)
+    assert files_of(out) == files_of(ref)

@@ -98,19 +98,29 @@ def dumps_from_entries(doc: dict, entry_texts: list) -> str | bytes:
 def document_parts(doc: dict, entry_texts: list[bytes]) -> list:
     """``dumps_from_entries`` of UTF-8 entries as a list of pieces to write one after the
     other (a lot library's document is hundreds of MB: each entry is copied once, to indent
-    it, and never joined)."""
+    it, and never joined). An entry that is not bytes is a piece already indented (a
+    ``publish.Span`` of the previous document) and is passed through."""
     head = (json.dumps({**doc, "specs": []}, indent=2, ensure_ascii=False, allow_nan=False) + "\n").encode("utf-8")
     if not entry_texts:
         return [head]
     parts = [head[: -len("[]\n}\n")], b"[\n"]
     for k, t in enumerate(entry_texts):
-        trailing = 0
-        while trailing < len(t) and t[len(t) - 1 - trailing] == 0x0A:     # as t.rstrip(b"\n"), without a copy
-            trailing += 1
-        indented = t.replace(b"\n", b"\n    ")                           # each newline gains the 4-space pad
-        parts += [b",\n    " if k else b"    ", memoryview(indented)[: len(indented) - 5 * trailing]]
+        parts += [b",\n    " if k else b"    ", indented_entry(t) if isinstance(t, bytes) else t]
     parts.append(b"\n  ]\n}\n")
     return parts
+
+
+ENTRY_PART = slice(3, -1, 2)     # the entries' pieces in document_parts' list
+
+
+def indented_entry(t: bytes) -> memoryview:
+    """An entry's text as it stands in the whole document: every line after the first
+    indented by four more spaces, the final newlines cut (one copy)."""
+    trailing = 0
+    while trailing < len(t) and t[len(t) - 1 - trailing] == 0x0A:     # as t.rstrip(b"\n"), without a copy
+        trailing += 1
+    indented = t.replace(b"\n", b"\n    ")                           # each newline gains the 4-space pad
+    return memoryview(indented)[: len(indented) - 5 * trailing]
 
 
 def entry_text(spec, derived, assessment) -> str:

@@ -9,12 +9,12 @@ import json
 
 import numpy as np
 
-from ..publish import Parts, SiteFiles, content_bytes
+from ..publish import Parts, SiteFiles, Span, content_bytes
 from .contexts import IndexContext, SpecContext
 from .lots import _units_view, lot_pages, page_names
 from .pages import (CAUTION, CAUTION_CATEGORIES, decision_text, environment, fmt, methods, render_markdown,
                     row_view, templates_dir)
-from .results import document_parts, dumps_entry, entry_text
+from .results import ENTRY_PART, document_parts, dumps_entry, entry_text
 from .swatch import swatch_hex
 
 SYMBOLS = {"pass": "✓", "fail": "✗", "indeterminate": "?"}
@@ -278,17 +278,32 @@ def render_site(evaluated, results: dict, cache=None, histories=None, *, site_ur
         files_of[e.spec.id] = files
         if cache is not None:
             cache.used.add(keys[e.spec.id])       # put in a worker marks its own copy
+    previous = cache.previous_entries() if cache is not None else None
+    drawn = {e.spec.id for e in todo}
     entry_texts = {}
     for e in evaluated:
-        files = files_of[e.spec.id]
+        sid = e.spec.id
+        files = files_of[sid]
         n_fig += sum(name.endswith(".svg") for name in files)
         for name in sorted(files):
-            site.add(f"{e.spec.id}/{name}", files[name])
-        entry_texts[e.spec.id] = content_bytes(files["results.json"])
+            site.add(f"{sid}/{name}", files[name])
+        if previous is not None and sid not in drawn and keys[sid] in previous[1]:
+            entry_texts[sid] = Span(previous[0], *previous[1][keys[sid]])   # same key: same entry
+        else:
+            entry_texts[sid] = content_bytes(files["results.json"])
     ictx = index_context(evaluated, site_url)
     ictx["reload"] = reload
     site.add("index.html", env.get_template("index.html").render(**ictx))
-    site.add("results.json", Parts(document_parts(results, [entry_texts[e.spec.id] for e in evaluated])))
+    parts = document_parts(results, [entry_texts[e.spec.id] for e in evaluated])
+    site.add("results.json", Parts(parts))
+    if cache is not None:
+        offsets, at = [], 0
+        for part in parts:
+            offsets.append(at)
+            at += len(part)
+        first = ENTRY_PART.start
+        cache.note_entries({keys[e.spec.id]: [offsets[first + 2 * k], len(parts[first + 2 * k])]
+                            for k, e in enumerate(evaluated)})
     static = templates_dir() / "static"
     for p in sorted(static.rglob("*")):
         if p.is_file():
