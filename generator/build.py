@@ -6,7 +6,7 @@ whole site in memory and publishes it in one swap.
 from __future__ import annotations
 
 import time
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from pathlib import Path
 
 from .assess.requirements import Assessment, assess
@@ -69,14 +69,21 @@ def evaluate_specs(specs: list[Spec], stages: dict | None = None, jobs: int = 1)
     from .parallel import map_indexed
 
     stages = stages if stages is not None else {}
+
+    def one(i: int):
+        # a worker passes back the figures and the assessment without the unit table, which
+        # the parent already holds in the spec (about half of what would travel)
+        e, td, ta = _evaluate_one(specs[i])
+        return e.derived, replace(e.assessment, table=None), td, ta
+
     t0 = time.perf_counter()
-    done = map_indexed(lambda i: _evaluate_one(specs[i]), len(specs), jobs)
+    done = map_indexed(one, len(specs), jobs)
     wall = time.perf_counter() - t0
-    t_derive, t_assess = sum(d for _, d, _ in done), sum(a for _, _, a in done)
+    t_derive, t_assess = sum(x[2] for x in done), sum(x[3] for x in done)
     share = t_derive / (t_derive + t_assess) if t_derive + t_assess > 0 else 1.0
     stages["compute"] = stages.get("compute", 0.0) + wall * share
     stages["assess"] = stages.get("assess", 0.0) + wall * (1.0 - share)
-    return [e for e, _, _ in done]
+    return [Evaluated(spec, d, replace(a, table=spec.table)) for spec, (d, a, _, _) in zip(specs, done, strict=True)]
 
 
 def evaluate(specs_path: Path, memo=None, stages: dict | None = None, jobs: int = 1) -> tuple[list[Evaluated], list]:

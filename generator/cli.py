@@ -256,12 +256,27 @@ def cmd_new(args) -> int:
     return write_starter(Path(args.path), args.id)
 
 
+GC_THRESHOLD = (50_000, 20, 100)
+
+
+def _collect_less_often() -> None:
+    """A build allocates millions of small dicts, tuples and lists (rows, points, nodes),
+    few of them in cycles; at Python's default threshold (700) the cycle collector ran
+    thousands of times and took a fifth of a build of the bench library (19.8 s -> 15.9 s
+    serial, the same peak memory). Cycles are still collected, less often."""
+    import gc
+
+    if gc.get_threshold()[0] < GC_THRESHOLD[0]:
+        gc.set_threshold(*GC_THRESHOLD)
+
+
 def main(argv: list[str] | None = None) -> int:
     from .publish import PublishError, Terminated, terminate_as_exception
     from .spec.limits import LimitsError, limits
     from .spec.problems import InputError
 
     args = _parser().parse_args(argv)
+    _collect_less_often()
     try:
         limits()  # a bad COLOURSPEC_MAX_* setting is a usage error, reported before any work
         with terminate_as_exception():

@@ -138,9 +138,9 @@ _KEYS = {"xy": ("x", "y"), "uv": ("u_prime", "v_prime"), "white": ("u_prime", "v
 def plotted_points(layer: F.Layer, which: str) -> list[dict]:
     """Every marked point of a diagram in its own coordinates: targets, units, reference
     corners and each tolerance outline's centre of its drawn vertices (outlines in JSON)."""
-    def co(xy):
+    def co(xy):      # (a, b) as Python floats: the tables, CSV and JSON read them point by point
         xy = np.asarray(xy, dtype=float)
-        return xy if which == "xy" else xy_to_uv_prime(xy)
+        return tuple((xy if which == "xy" else xy_to_uv_prime(xy)).tolist())
 
     rows = []
     for name, xy in layer.primaries:
@@ -148,8 +148,9 @@ def plotted_points(layer: F.Layer, which: str) -> list[dict]:
     if layer.white_xy is not None:
         rows.append({"kind": "target", "name": "white", "at": co(layer.white_xy), "verdict": ""})
     if layer.units:      # all units converted at once (a lot diagram draws up to 1500)
-        at = co(np.array([xy for _, xy, _ in layer.units], dtype=float).reshape(-1, 2))
-        rows += [{"kind": "unit", "name": label, "at": at[k], "verdict": verdict}
+        xy = np.array([xy for _, xy, _ in layer.units], dtype=float).reshape(-1, 2)
+        at = (xy if which == "xy" else xy_to_uv_prime(xy)).tolist()
+        rows += [{"kind": "unit", "name": label, "at": tuple(at[k]), "verdict": verdict}
                  for k, (label, _, verdict) in enumerate(layer.units)]
     for title, hull in layer.references:
         for k, xy in enumerate(np.asarray(hull)):
@@ -172,7 +173,7 @@ def table_rows(rows: list[dict]) -> list[dict]:
 
 def _float_text(v: float) -> str:
     # json.dumps(v, allow_nan=True): a finite float's repr, else NaN / Infinity / -Infinity
-    return float.__repr__(v) if v - v == 0.0 else ("NaN" if v != v else ("Infinity" if v > 0 else "-Infinity"))
+    return float.__repr__(v) if isfinite(v) else ("NaN" if v != v else ("Infinity" if v > 0 else "-Infinity"))
 
 
 def point_texts(rows, a: str, b: str) -> list[str]:
@@ -185,7 +186,7 @@ def point_texts(rows, a: str, b: str) -> list[str]:
     out = []
     for r in rows:
         kind = kinds.get(r["kind"]) or kinds.setdefault(r["kind"], '{"kind": ' + enc(r["kind"]) + ', "name": ')
-        x, y = r["at"].tolist()
+        x, y = r["at"]
         v = r["verdict"]
         out.append(kind + enc(r["name"]) + ka + _float_text(x) + kb + _float_text(y)
                    + (', "verdict": ' + enc(v) + "}" if v else "}"))
