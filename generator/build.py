@@ -77,7 +77,7 @@ def evaluate_specs(specs: list[Spec], stages: dict | None = None, jobs: int = 1)
         return e.derived, replace(e.assessment, table=None), td, ta
 
     t0 = time.perf_counter()
-    done = map_indexed(one, len(specs), jobs)
+    done = map_indexed(one, len(specs), jobs, cost=[len(s.table) if s.table is not None else 0 for s in specs])
     wall = time.perf_counter() - t0
     t_derive, t_assess = sum(x[2] for x in done), sum(x[3] for x in done)
     share = t_derive / (t_derive + t_assess) if t_derive + t_assess > 0 else 1.0
@@ -154,9 +154,8 @@ def build(specs_path: Path, out: Path, *, clean: bool = False, incremental: bool
                                            site_url=site_url, reload=reload, jobs=jobs)
     t2 = time.perf_counter()
     stages["render"] = t2 - t1
-    real = publish(site, out, protect=(specs_path,))
+    publish(site, out, protect=(specs_path,))
     if cache is not None:
-        cache.save_index(real / "results.json")
         cache.prune()
     if memo is not None:
         memo.prune()

@@ -29,8 +29,7 @@ from . import __version__
 from .publish import FileRef
 
 FORMAT = "colourspec-cache/1"
-INDEX = "results-index.json"   # where each spec's entry lies in the published results.json
-KEEP = {"evaluated", INDEX}     # the evaluation memo's folder (generator/memo.py), the index
+KEEP = {"evaluated"}     # the evaluation memo's folder (generator/memo.py)
 
 
 def cache_dir_for(out: Path) -> Path:
@@ -138,44 +137,6 @@ class Cache:
         except OSError:
             return None  # a cache that cannot be written only costs time
         return {name: FileRef(target / f"{i}") for i, name in enumerate(names)}
-
-    # The site's results.json is the largest file of a lot library and changes on every build;
-    # an unchanged spec's entry is copied from the published one (publish.Span) where this
-    # index, written after the last publish, still matches that file.
-    def previous_entries(self) -> tuple[Path, dict[str, list[int]]] | None:
-        """(the published results.json, cache key -> [offset, length] of its entry), or None
-        when there is no index or the file is no longer the one it describes."""
-        try:
-            idx = json.loads((self.root / INDEX).read_text(encoding="utf-8"))
-            if idx.get("format") != FORMAT:
-                return None
-            path = Path(idx["file"])
-            st = os.stat(path)
-            if [st.st_ino, st.st_size, st.st_mtime_ns] != idx["stat"]:
-                return None
-            return path, {k: [int(a), int(b)] for k, (a, b) in idx["entries"].items()}
-        except (OSError, ValueError, KeyError, TypeError, AttributeError):
-            return None
-
-    def note_entries(self, entries: dict[str, list[int]]) -> None:
-        """Where each spec's entry lies in the results.json about to be published."""
-        self._entries = entries
-
-    def save_index(self, published: Path) -> None:
-        """After publishing: remember the noted entries of ``published`` (its results.json)."""
-        entries = getattr(self, "_entries", None)
-        (self.root / INDEX).unlink(missing_ok=True)
-        if not entries:
-            return
-        try:
-            st = os.stat(published)
-            fd, tmp = tempfile.mkstemp(prefix=".index-", dir=self.root)
-            with os.fdopen(fd, "w", encoding="utf-8") as f:
-                json.dump({"format": FORMAT, "file": str(published.resolve()),
-                           "stat": [st.st_ino, st.st_size, st.st_mtime_ns], "entries": entries}, f)
-            os.replace(tmp, self.root / INDEX)
-        except OSError:
-            pass
 
     def prune(self) -> None:
         """Remove every entry this build did not use (and half-written ones)."""

@@ -29,9 +29,11 @@ def _run(i: int):
     return _TASK(i)
 
 
-def map_indexed(task, n: int, jobs: int = 1, min_items: int = 4) -> list:
+def map_indexed(task, n: int, jobs: int = 1, min_items: int = 4, cost=None) -> list:
     """[task(0), ..., task(n - 1)], spread over ``jobs`` forked processes when that is
-    worth it (at least ``min_items`` items); ``task`` may be any callable (a closure)."""
+    worth it (at least ``min_items`` items); ``task`` may be any callable (a closure).
+    ``cost`` (one number per item, e.g. its units) hands the costliest items out first, one
+    at a time, so that no worker is left with a large item at the end (longest first)."""
     global _TASK
     jobs = min(jobs, n)
     if jobs <= 1 or n < min_items or not can_fork():
@@ -39,6 +41,12 @@ def map_indexed(task, n: int, jobs: int = 1, min_items: int = 4) -> list:
     _TASK = task
     try:
         with ProcessPoolExecutor(max_workers=jobs, mp_context=mp.get_context("fork")) as pool:
-            return list(pool.map(_run, range(n), chunksize=max(1, n // (jobs * 8))))
+            if cost is None:
+                return list(pool.map(_run, range(n), chunksize=max(1, n // (jobs * 8))))
+            order = sorted(range(n), key=lambda i: -cost[i])        # stable: ties keep their order
+            out: list = [None] * n
+            for i, result in zip(order, pool.map(_run, order, chunksize=1), strict=True):
+                out[i] = result
+            return out
     finally:
         _TASK = None

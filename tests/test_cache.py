@@ -79,7 +79,7 @@ def test_the_cache_is_a_hidden_folder_beside_the_site_and_never_inside_it(librar
     by_id = {e.spec.id: e.spec for e in evaluated}
     assert C.cache_dir_for(out) == tmp_path / ".site.cache"
     assert sorted(p.name for p in (tmp_path / ".site.cache").iterdir()) == sorted(
-        [C.spec_key(e.spec, by_id) for e in evaluated] + ["evaluated", C.INDEX])   # pages, memo, index
+        [C.spec_key(e.spec, by_id) for e in evaluated] + ["evaluated"])    # pages, and the memo
     assert not any("cache" in rel or "manifest" in rel for rel in files_of(out))
 
 
@@ -286,10 +286,13 @@ def test_a_cached_spec_brings_back_each_diagram_with_its_numbers_and_the_page(li
     evaluated = build(library.dir, out).evaluated
     by_id = {e.spec.id: e.spec for e in evaluated}
     files = C.Cache(C.cache_dir_for(out)).get(C.spec_key(by_id["a"], by_id))
-    assert sorted(files) == ["index.html", "results.json"] + [f"{k}.{ext}" for k in ("uv", "white", "xy")
-                                              for ext in ("csv", "json", "svg")]
+    assert sorted(files) == [".entry-in-results", "index.html", "results.json"] + [
+        f"{k}.{ext}" for k in ("uv", "white", "xy") for ext in ("csv", "json", "svg")]
     site = files_of(out)
-    assert all(files[name] == site[f"a/{name}"] for name in files)
+    assert all(files[name] == site[f"a/{name}"] for name in files if name != ".entry-in-results")
+    # the entry as the site's results.json holds it: the spec's own file, indented by four more spaces
+    assert files[".entry-in-results"] in site["results.json"]
+    assert files[".entry-in-results"] == files["results.json"].rstrip(b"\n").replace(b"\n", b"\n    ")
 
 
 def test_site_url_and_the_reload_script_are_part_of_the_key(library, tmp_path):
@@ -328,31 +331,23 @@ def test_a_cached_spec_brings_back_its_spectra_and_volume_figures_with_their_num
     evaluated = build(spec_dir.dir, out).evaluated
     by_id = {e.spec.id: e.spec for e in evaluated}
     files = C.Cache(C.cache_dir_for(out)).get(C.spec_key(by_id["s"], by_id))
-    assert sorted(files) == ["index.html", "results.json"] + [f"{k}.{ext}" for k in ("spectra", "uv", "volume", "white", "xy")
-                                              for ext in ("csv", "json", "svg")]
+    assert sorted(files) == [".entry-in-results", "index.html", "results.json"] + [
+        f"{k}.{ext}" for k in ("spectra", "uv", "volume", "white", "xy") for ext in ("csv", "json", "svg")]
     site = files_of(out)
-    assert all(files[name] == site[f"s/{name}"] for name in files)
+    assert all(files[name] == site[f"s/{name}"] for name in files if name != ".entry-in-results")
     assert build(spec_dir.dir, out).reused == 1
     assert files_of(out) == site
 
 
-def test_unchanged_entries_are_copied_from_the_published_results_unless_that_file_changed(library, tmp_path):
-    """The site's results.json takes unchanged specs' entries from the previous one (where
-    the index beside the cache still matches that file); edited in place, it is not used."""
-    import os
-
+def test_unchanged_entries_of_the_sites_results_are_copied_from_the_cache(library, tmp_path):
+    """The site's results.json takes each spec's entry, indented as it stands there, from
+    the spec's cache entry (publish.Span, copied by the kernel), the entry just drawn
+    included; the result is the clean build's file."""
     from generator.publish import Span
     from generator.render import site as site_mod
 
     out, ref = tmp_path / "site", tmp_path / "clean"
     build(library.dir, out)
-    cache = C.Cache(C.cache_dir_for(out))
-    published, entries = cache.previous_entries()
-    assert published == (out / "results.json").resolve() and len(entries) == 4
-    text = published.read_bytes()
-    for off, n in entries.values():
-        assert text[off:off + 1] == b"{" and text[off + n - 1:off + n] == b"}"
-
     spans = []
     real_parts = site_mod.Parts
     site_mod.Parts = lambda parts: spans.extend(p for p in parts if isinstance(p, Span)) or real_parts(parts)
@@ -361,17 +356,8 @@ def test_unchanged_entries_are_copied_from_the_published_results_unless_that_fil
         build(library.dir, out)
     finally:
         site_mod.Parts = real_parts
-    assert len(spans) == 3                                    # a, b, c copied; d written anew
+    cache = C.cache_dir_for(out)
+    assert len(spans) == 4 and all(s.path.is_relative_to(cache) and s.offset == 0 for s in spans)
     build(library.dir, ref, incremental=False)
     assert files_of(out) == files_of(ref)
-
-    damaged = bytearray((out / "results.json").read_bytes())     # the same size, other bytes
-    damaged[damaged.index(b'"id"')] = ord("X")
-    with open(out / "results.json", "r+b") as f:
-        f.write(bytes(damaged))
-    os.utime(out / "results.json", ns=(1, 1))
-    assert C.Cache(C.cache_dir_for(out)).previous_entries() is None
-    (library.dir / "d.yaml").write_text((library.dir / "d.yaml").read_text().replace("title: New ", "title: "))
-    build(library.dir, out)
-    build(library.dir, ref, incremental=False)
-    assert files_of(out) == files_of(ref)
+    assert not any(".entry" in rel for rel in files_of(out))

@@ -71,3 +71,14 @@ def test_loading_in_workers_reports_the_same_problems_and_warnings(tmp_path, mon
             load_specs(specs, jobs=jobs)
         errors.append(e.value.problems)
     assert errors[0] == errors[1] and any(p.file.endswith("copy-5.yaml") for p in errors[0])
+
+
+def test_costliest_items_first_still_gives_the_results_in_input_order():
+    def task(i):
+        return (i, os.getpid())
+
+    cost = [i % 7 for i in range(30)]
+    got = map_indexed(task, 30, jobs=2, cost=cost)
+    assert [i for i, _ in got] == list(range(30))
+    if can_fork():
+        assert all(pid != os.getpid() for _, pid in got)      # done in the workers

@@ -99,7 +99,8 @@ def document_parts(doc: dict, entry_texts: list[bytes]) -> list:
     """``dumps_from_entries`` of UTF-8 entries as a list of pieces to write one after the
     other (a lot library's document is hundreds of MB: each entry is copied once, to indent
     it, and never joined). An entry that is not bytes is a piece already indented (a
-    ``publish.Span`` of the previous document) and is passed through."""
+    memoryview from ``indented_entry``, or a ``publish.Span`` of a cached copy) and is
+    passed through."""
     head = (json.dumps({**doc, "specs": []}, indent=2, ensure_ascii=False, allow_nan=False) + "\n").encode("utf-8")
     if not entry_texts:
         return [head]
@@ -108,9 +109,6 @@ def document_parts(doc: dict, entry_texts: list[bytes]) -> list:
         parts += [b",\n    " if k else b"    ", indented_entry(t) if isinstance(t, bytes) else t]
     parts.append(b"\n  ]\n}\n")
     return parts
-
-
-ENTRY_PART = slice(3, -1, 2)     # the entries' pieces in document_parts' list
 
 
 def indented_entry(t: bytes) -> memoryview:

@@ -9,12 +9,12 @@ import json
 
 import numpy as np
 
-from ..publish import Parts, SiteFiles, Span, content_bytes
+from ..publish import FileRef, Parts, SiteFiles, Span
 from .contexts import IndexContext, SpecContext
 from .lots import _units_view, lot_pages, page_names
 from .pages import (CAUTION, CAUTION_CATEGORIES, decision_text, environment, fmt, methods, render_markdown,
                     row_view, templates_dir)
-from .results import ENTRY_PART, document_parts, dumps_entry, entry_text
+from .results import document_parts, dumps_entry, entry_text, indented_entry
 from .swatch import swatch_hex
 
 SYMBOLS = {"pass": "✓", "fail": "✗", "indeterminate": "?"}
@@ -226,7 +226,11 @@ def spec_files(e, env, history=None, site_url: str | None = None, reload: bool =
         files[path] = content.encode("utf-8") if isinstance(content, str) else content
     text = dumps_entry(entry) if entry is not None else entry_text(e.spec, e.derived, e.assessment)
     files["results.json"] = text.encode("utf-8")
+    files[INDENTED_ENTRY] = bytes(indented_entry(files["results.json"]))
     return files
+
+
+INDENTED_ENTRY = ".entry-in-results"   # the entry as the site's results.json holds it (cached, not published)
 
 
 def _key_extra(history, site_url: str | None, reload: bool) -> str:
@@ -262,7 +266,7 @@ def render_site(evaluated, results: dict, cache=None, histories=None, *, site_ur
         if cache is not None:
             keys[e.spec.id] = spec_key(e.spec, by_id, _key_extra(history_of[e.spec.id], site_url, reload))
             got = cache.get(keys[e.spec.id], refs=True)
-            if got is not None and "results.json" in got:
+            if got is not None and INDENTED_ENTRY in got:
                 files_of[e.spec.id] = got
     todo = [e for e in evaluated if e.spec.id not in files_of]
 
@@ -274,36 +278,26 @@ def render_site(evaluated, results: dict, cache=None, histories=None, *, site_ur
         refs = cache.put(keys[e.spec.id], files) if cache is not None else None
         return refs if refs is not None else files
 
-    for e, files in zip(todo, map_indexed(draw, len(todo), jobs), strict=True):
+    for e, files in zip(todo, map_indexed(draw, len(todo), jobs, cost=[n_units(e) for e in todo]), strict=True):
         files_of[e.spec.id] = files
         if cache is not None:
             cache.used.add(keys[e.spec.id])       # put in a worker marks its own copy
-    previous = cache.previous_entries() if cache is not None else None
-    drawn = {e.spec.id for e in todo}
-    entry_texts = {}
+    pieces = {}
     for e in evaluated:
         sid = e.spec.id
         files = files_of[sid]
         n_fig += sum(name.endswith(".svg") for name in files)
         for name in sorted(files):
-            site.add(f"{sid}/{name}", files[name])
-        if previous is not None and sid not in drawn and keys[sid] in previous[1]:
-            entry_texts[sid] = Span(previous[0], *previous[1][keys[sid]])   # same key: same entry
-        else:
-            entry_texts[sid] = content_bytes(files["results.json"])
+            if name != INDENTED_ENTRY:
+                site.add(f"{sid}/{name}", files[name])
+        entry = files[INDENTED_ENTRY]
+        # from the cache: copied by the kernel from the cached file into the site's results.json
+        pieces[sid] = Span(entry.path, 0, entry.path.stat().st_size) if isinstance(entry, FileRef) \
+            else memoryview(entry)                                   # not bytes: indented already
     ictx = index_context(evaluated, site_url)
     ictx["reload"] = reload
     site.add("index.html", env.get_template("index.html").render(**ictx))
-    parts = document_parts(results, [entry_texts[e.spec.id] for e in evaluated])
-    site.add("results.json", Parts(parts))
-    if cache is not None:
-        offsets, at = [], 0
-        for part in parts:
-            offsets.append(at)
-            at += len(part)
-        first = ENTRY_PART.start
-        cache.note_entries({keys[e.spec.id]: [offsets[first + 2 * k], len(parts[first + 2 * k])]
-                            for k, e in enumerate(evaluated)})
+    site.add("results.json", Parts(document_parts(results, [pieces[e.spec.id] for e in evaluated])))
     static = templates_dir() / "static"
     for p in sorted(static.rglob("*")):
         if p.is_file():
