@@ -130,10 +130,6 @@ def _write_parts(f, parts: list) -> None:
                 f.write(os.pread(src.fileno(), left, offset))
 
 
-def content_bytes(content: bytes | FileRef | Parts) -> bytes:
-    return content.read() if isinstance(content, (FileRef, Parts)) else content
-
-
 class SiteFiles:
     """A site to publish: relative POSIX path -> bytes, a FileRef to a file holding them, or
     Parts."""

@@ -82,12 +82,9 @@ def dumps_entry(entry: dict) -> str:
     return dumps_one_per_line(entry, ONE_PER_LINE)
 
 
-def dumps_from_entries(doc: dict, entry_texts: list) -> str | bytes:
+def dumps_from_entries(doc: dict, entry_texts: list[str]) -> str:
     """``dumps(doc)`` for a document whose "specs" entries are already encoded by
-    ``dumps_entry`` (so an incremental build encodes only the specs that changed); the
-    entries as str give str, as UTF-8 bytes give bytes (``document_parts`` joined)."""
-    if entry_texts and isinstance(entry_texts[0], bytes):
-        return b"".join(document_parts(doc, entry_texts))
+    ``dumps_entry`` (the build writes the same text from UTF-8 pieces: ``document_parts``)."""
     head = json.dumps({**doc, "specs": []}, indent=2, ensure_ascii=False, allow_nan=False) + "\n"
     if not entry_texts:
         return head
