@@ -72,7 +72,7 @@ def dumps_one_per_line(doc: dict, keys, indent: int = 2, allow_nan: bool = False
     for k, mark in marks.items():
         texts = encoded[k] if k in encoded else [json.dumps(r, ensure_ascii=False, allow_nan=allow_nan)
                                                   for r in doc[k]]
-        rows = ",\n".join(pad * 2 + t for t in texts)
+        rows = pad * 2 + (",\n" + pad * 2).join(texts) if texts else ""
         text = text.replace(json.dumps(mark), "[\n" + rows + "\n" + pad + "]", 1)
     return text
 

@@ -57,10 +57,9 @@ def _column_texts(c, serials, lots, serials_j, lots_j, with_uncertainty: bool) -
         values = _num_texts(c.value)
     margins = _num_texts(c.margin)
     unc = _texts(U, ', "uncertainty": ') if U is not None else [""] * n
-    return [None if code[i] < 0 else
-            (head + serials_j[i] + mid + values[i] + tail + verdicts[code[i]] + ', "margin": ' + margins[i]
-             + extra + unc[i] + ', "lot": ' + lots_j[i] + "}")
-            for i in range(n)]
+    verdict_of = [v + ', "margin": ' for v in verdicts] + [None]           # code -1: not assessed
+    return [None if k < 0 else f"{head}{s}{mid}{v}{tail}{verdict_of[k]}{m}{extra}{u}, \"lot\": {lot}}}"
+            for s, v, k, m, u, lot in zip(serials_j, values, code, margins, unc, lots_j, strict=True)]
 
 
 def _split(text: str, n: int) -> list[str]:
@@ -97,7 +96,7 @@ def unit_rows_json(cols: list, table, with_uncertainty: bool) -> list[str]:
     serials, lots = list(table.serial), list(table.lot)
     serials_j, lots_j = [enc(s) for s in serials], [enc(s) for s in lots]
     per_col = [_column_texts(c, serials, lots, serials_j, lots_j, with_uncertainty) for c in cols]
-    return [t for i in range(len(serials)) for col in per_col if (t := col[i]) is not None]
+    return [t for unit in zip(*per_col) for t in unit if t is not None]
 
 
 _ENTRY_KEYS = ("serial", "lot", "supplier", "verdict", "rows", "failing", "source")
