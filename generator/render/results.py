@@ -68,13 +68,15 @@ def dumps_one_per_line(doc: dict, keys, indent: int = 2, allow_nan: bool = False
     if any(text.count(json.dumps(mark)) != 1 for mark in marks.values()):   # a value spelling a mark
         full = {k: (v if k not in encoded else [json.loads(t) for t in encoded[k]]) for k, v in doc.items()}
         return json.dumps(full, indent=indent, ensure_ascii=False, allow_nan=allow_nan) + "\n"
-    pad = " " * indent
-    for k, mark in marks.items():
+    pad, sep = " " * indent, ",\n" + " " * (2 * indent)
+    pieces = []
+    for k, mark in sorted(marks.items(), key=lambda km: text.index(json.dumps(km[1]))):
+        before, text = text.split(json.dumps(mark), 1)
         texts = encoded[k] if k in encoded else [json.dumps(r, ensure_ascii=False, allow_nan=allow_nan)
                                                   for r in doc[k]]
-        rows = pad * 2 + (",\n" + pad * 2).join(texts) if texts else ""
-        text = text.replace(json.dumps(mark), "[\n" + rows + "\n" + pad + "]", 1)
-    return text
+        pieces += [before, "[\n", pad * 2 if texts else "", sep.join(texts), "\n", pad, "]"]
+    pieces.append(text)
+    return "".join(pieces)      # the long lists are copied once, never re-scanned
 
 
 def dumps_entry(entry: dict) -> str:
