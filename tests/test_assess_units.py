@@ -90,3 +90,30 @@ def test_unit_rows_carry_lot_and_uncertainty():
     (row,) = list(unit_rows(cols, t, True))
     assert row["sample"] == "A" and row["lot"] == "L" and row["uncertainty"] == 2.0
     assert row["quantity"] == "luminance_uniformity" and row["unit"] == "%"
+
+
+@pytest.mark.parametrize("limit", [0, 7, 50, 10_000])
+def test_the_rows_a_page_shows_are_those_of_the_full_list_not_passing_first(limit, tmp_path, monkeypatch):
+    """Counts, the not-passing rows and the rows shown are built from the verdict codes and
+    a few rows, and equal what the full row list gives, for every demo spec with units."""
+    from generator.build import evaluate
+
+    from .conftest import copy_demo
+
+    monkeypatch.chdir(tmp_path)
+    evaluated, _ = evaluate(copy_demo(tmp_path))
+    seen = 0
+    for e in evaluated:
+        a = e.assessment
+        rows = a.rows
+        units = rows[len(a.design_rows):]
+        counts = a.row_counts()
+        assert counts["rows"] == len(rows)
+        assert all(counts[v] == sum(r["verdict"] == v for r in rows) for v in CODES)
+        assert a.not_passing_rows(limit) == [r for r in rows if r["verdict"] != "pass"][:limit]
+        bad = [r for r in units if r["verdict"] != "pass"]
+        good = [r for r in units if r["verdict"] == "pass"]
+        expected = units if len(units) <= limit else (bad + good)[:limit]
+        assert a.unit_rows_shown(limit) == expected
+        seen += bool(units)
+    assert seen >= 3

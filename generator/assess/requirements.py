@@ -76,19 +76,27 @@ class Assessment:
         n["rows"] = sum(n[v] for v in CODES)
         return n
 
-    def unit_rows_head(self, limit: int) -> list[dict]:
-        """The first ``limit`` unit rows of ``rows``."""
-        return list(islice(self._unit_rows(), limit))
+    def unit_rows_shown(self, limit: int) -> list[dict]:
+        """The unit rows of ``rows`` when there are at most ``limit``, else ``limit`` of them:
+        those that do not pass first, then passing ones, each kind in order."""
+        n = sum(int(np.count_nonzero(c.code >= 0)) for c in self.columns)
+        if n <= limit:
+            return list(self._unit_rows())
+        shown = self._not_passing_unit_rows(limit)
+        passing = (r for r in self._unit_rows() if r["verdict"] == "pass")
+        return shown + list(islice(passing, limit - len(shown)))
 
     def not_passing_rows(self, limit: int) -> list[dict]:
-        """The first ``limit`` rows of ``rows`` whose verdict is not pass, built only for the
-        units that have one."""
+        """The first ``limit`` rows of ``rows`` whose verdict is not pass."""
         out = [r for r in self.design_rows if r["verdict"] != "pass"][:limit]
-        if len(out) < limit and self.columns and self.table is not None:
-            bad = np.flatnonzero(np.any(np.stack([c.code > 0 for c in self.columns]), axis=0))
-            rows = (r for r in self._unit_rows(bad.tolist()) if r["verdict"] != "pass")
-            out += list(islice(rows, limit - len(out)))
-        return out
+        return out + self._not_passing_unit_rows(limit - len(out))
+
+    def _not_passing_unit_rows(self, limit: int) -> list[dict]:
+        """The first ``limit`` unit rows that do not pass, built only for the units that have one."""
+        if limit <= 0 or not self.columns or self.table is None:
+            return []
+        bad = np.flatnonzero(np.any(np.stack([c.code > 0 for c in self.columns]), axis=0))
+        return list(islice((r for r in self._unit_rows(bad.tolist()) if r["verdict"] != "pass"), limit))
 
 
 def _row(rid, subject, sample, quantity, value, limit, verdict, marg, label, **extra):

@@ -42,7 +42,7 @@ class SpecContext(Base):
     units: list[dict]   # the units listed (the least passing first when there are many): serial, lot,
                         # supplier, verdict, symbol, failing (text), rows, source
     n_units: int        # every measured unit, inline and from measurement files
-    unit_rows: list[dict]  # the first MAX_UNIT_ROWS unit requirement rows (pages.row_view)
+    unit_rows: list[dict]  # up to MAX_UNIT_ROWS unit requirement rows, not passing first (pages.row_view)
     n_unit_rows: int
     lots: list[dict]    # lot, n, n_fail, n_indeterminate, n_pass, suppliers, verdict, symbol, page (lots/PAGE.html)
     suppliers: list[dict]  # supplier, n, n_fail, n_indeterminate, lots, verdict, symbol, page

@@ -18,7 +18,7 @@ from .results import document_parts, dumps_entry, entry_text, indented_entry
 from .swatch import swatch_hex
 
 SYMBOLS = {"pass": "✓", "fail": "✗", "indeterminate": "?"}
-MAX_UNIT_ROWS = 3000   # unit rows listed on a spec page; results.json has all
+MAX_UNIT_ROWS = 1000   # unit rows listed on a spec page, those that do not pass first; results.json has all
 
 
 def n_units(e) -> int:
@@ -72,7 +72,7 @@ def spec_context(e, figs, site_url: str | None = None, history=None) -> SpecCont
     # rows are built and formatted for the page only where shown (a lot can give a million)
     counts = a.row_counts()
     design = [row_view(r) for r in a.design_rows]
-    unit_rows = [row_view(r) for r in a.unit_rows_head(MAX_UNIT_ROWS)]
+    unit_rows = [row_view(r) for r in a.unit_rows_shown(MAX_UNIT_ROWS)]
     lot_names, sup_names = page_names(a)
     failing = [dict(v, what=_what(v)) for v in map(row_view, a.not_passing_rows(12))]
     n_failing = counts["rows"] - counts["pass"]
