@@ -62,10 +62,11 @@ def _evaluate_one(spec: Spec) -> tuple[Evaluated, float, float]:
     return Evaluated(spec, d, a), t1 - t0, time.perf_counter() - t1
 
 
-def evaluate_specs(specs: list[Spec], stages: dict | None = None, jobs: int = 1) -> list[Evaluated]:
+def evaluate_specs(specs: list[Spec], stages: dict | None = None, jobs: int = 1, done_one=None) -> list[Evaluated]:
     """Compute and assess each spec, in ``jobs`` worker processes when that is worth it.
     ``stages`` gains the seconds spent computing and assessing (wall time, shared between
-    the two in proportion to the time the work took)."""
+    the two in proportion to the time the work took). ``done_one(evaluated)`` runs where
+    each spec was evaluated (in its worker), e.g. to keep it in the memo."""
     from .parallel import map_indexed
 
     stages = stages if stages is not None else {}
@@ -74,6 +75,8 @@ def evaluate_specs(specs: list[Spec], stages: dict | None = None, jobs: int = 1)
         # a worker passes back the figures and the assessment without the unit table, which
         # the parent already holds in the spec (about half of what would travel)
         e, td, ta = _evaluate_one(specs[i])
+        if done_one is not None:
+            done_one(e)
         return e.derived, replace(e.assessment, table=None), td, ta
 
     t0 = time.perf_counter()
@@ -95,10 +98,18 @@ def evaluate(specs_path: Path, memo=None, stages: dict | None = None, jobs: int 
     reused: dict = {}
     specs, warnings = load_specs(specs_path, memo.reuse if memo is not None else None, reused, jobs)
     stages["load"] = time.perf_counter() - t0
-    evaluated = evaluate_specs(specs, stages, jobs) + list(reused.values())
+    done_one = None
+    if memo is not None:     # each fresh evaluation is kept by the worker that made it
+        every = specs + [e.spec for e in reused.values()]
+        by_id, digests = {s.id: s for s in every}, {s.file: s.digest for s in every}
+
+        def done_one(e):
+            memo.store_one(e, by_id, digests)
+    evaluated = evaluate_specs(specs, stages, jobs, done_one) + list(reused.values())
     evaluated.sort(key=lambda e: e.spec.id)
     if memo is not None:
-        memo.store(evaluated, {e.spec.file: e.spec.digest for e in evaluated})
+        for s in specs:
+            memo.mark_used(s.file, digests)
     return evaluated, warnings
 
 

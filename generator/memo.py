@@ -88,19 +88,27 @@ class EvaluationMemo:
         """Keep every evaluation of this build not taken from the memo."""
         by_id = {e.spec.id: e.spec for e in evaluated}
         for e in evaluated:
-            key = self._key(e.spec.file, digests)
-            if key in self.used:
-                continue
-            closure = {by_id[sid].file: by_id[sid].digest for sid in dependencies(e.spec, by_id)}
-            self.used.add(key)
-            try:
-                self.root.mkdir(parents=True, exist_ok=True)
-                fd, tmp = tempfile.mkstemp(prefix=".new-", dir=self.root)
-                with os.fdopen(fd, "wb") as f:
-                    pickle.dump({"format": FORMAT, "closure": closure, "evaluated": e}, f, protocol=5)
-                os.replace(tmp, self.root / f"{key}.pickle")
-            except (OSError, pickle.PicklingError, TypeError, AttributeError):
-                pass  # a memo that cannot be written only costs time
+            self.store_one(e, by_id, digests)
+
+    def store_one(self, e, by_id: dict, digests: dict[str, str]) -> None:
+        """Keep one evaluation (``by_id``: every spec of the build, for its closure). A worker
+        process may call it; the parent then marks the key used (``mark_used``)."""
+        key = self._key(e.spec.file, digests)
+        if key in self.used:
+            return
+        closure = {by_id[sid].file: by_id[sid].digest for sid in dependencies(e.spec, by_id)}
+        self.used.add(key)
+        try:
+            self.root.mkdir(parents=True, exist_ok=True)
+            fd, tmp = tempfile.mkstemp(prefix=".new-", dir=self.root)
+            with os.fdopen(fd, "wb") as f:
+                pickle.dump({"format": FORMAT, "closure": closure, "evaluated": e}, f, protocol=5)
+            os.replace(tmp, self.root / f"{key}.pickle")
+        except (OSError, pickle.PicklingError, TypeError, AttributeError):
+            pass  # a memo that cannot be written only costs time
+
+    def mark_used(self, file: str, digests: dict[str, str]) -> None:
+        self.used.add(self._key(file, digests))
 
     def prune(self) -> None:
         """Remove every entry this build did not use."""

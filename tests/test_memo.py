@@ -141,3 +141,26 @@ def test_an_input_error_is_reported_even_when_other_specs_are_recalled(library, 
     with pytest.raises(InputError) as err:
         build(library.dir, out)
     assert any(pr.file.endswith("d.yaml") and "gamut" in pr.path for pr in err.value.problems)
+
+
+def test_evaluations_kept_by_worker_processes_are_recalled(library, tmp_path, monkeypatch):
+    """With --jobs, each worker keeps the evaluations it made; the next build recalls them all."""
+    import generator.build as B
+    from generator.parallel import can_fork
+
+    if not can_fork():
+        pytest.skip("no fork on this platform: the work runs in this process")
+    out = tmp_path / "site"
+    for k in range(4, 10):                       # enough specs to go to the workers (at least 4)
+        library(f"e{k}.yaml", PANEL.format(id=f"e{k}", ref="srgb"))
+    first = build(library.dir, out, jobs=2)
+    before = files_of(out)
+    assert len(list(_memo(out).glob("*.pickle"))) == 10
+
+    def no_derive(spec):
+        raise AssertionError(f"{spec.id} was computed again")
+
+    monkeypatch.setattr(B, "derive", no_derive)
+    second = build(library.dir, out, jobs=2)
+    assert (first.recalled, second.recalled) == (0, 10)
+    assert files_of(out) == before
