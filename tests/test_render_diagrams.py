@@ -309,3 +309,17 @@ def test_point_texts_are_the_json_of_each_point_dict_for_awkward_names_and_numbe
         if r["verdict"]:
             d["verdict"] = r["verdict"]
         assert t == json.dumps(d, ensure_ascii=False, allow_nan=True)
+
+
+@pytest.mark.parametrize("closed", [False, True])
+def test_densified_polylines_are_the_segment_by_segment_points(closed):
+    """All segments at once give the points of the plain per-segment loop, bit for bit."""
+    rng = np.random.default_rng(7)
+    px = rng.uniform(0, 500, (40, 2))
+    px[5] = px[4]                                   # a zero-length segment: one point
+    ref = np.vstack([px, px[:1]]) if closed else px
+    out = [ref[:1]]
+    for a, b in zip(ref[:-1], ref[1:]):
+        n = max(1, int(np.ceil(np.hypot(*(b - a)) / 4.0)))
+        out.append(a + (b - a) * (np.arange(1, n + 1)[:, None] / n))
+    assert np.array_equal(F._densify(px, closed), np.vstack(out))

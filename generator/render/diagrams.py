@@ -198,8 +198,8 @@ def _data_json(which, layer, rows) -> str:
     doc = {
         "figure": which, "title": layer.title, "coordinates": [a, b], "observer": layer.observer,
         "points": [],                                               # one a line, from point_texts
-        "tolerances": [{"label": label, "outline": [[float(v) for v in p] for p in
-                        (np.asarray(poly) if which == "xy" else xy_to_uv_prime(np.asarray(poly)))]}
+        "tolerances": [{"label": label, "outline": (np.asarray(poly, dtype=float) if which == "xy"
+                                                     else xy_to_uv_prime(np.asarray(poly, dtype=float))).tolist()}
                        for label, poly in layer.tolerances],
     }
     return dumps_one_per_line(doc, ("points", "tolerances"), indent=1, allow_nan=True,

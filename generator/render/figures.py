@@ -172,11 +172,14 @@ def _densify(px, closed: bool, step: float = 4.0) -> np.ndarray:
     px = np.asarray(px, dtype=float).reshape(-1, 2)
     if closed and len(px) > 1:
         px = np.vstack([px, px[:1]])
-    out = [px[:1]]
-    for a, b in zip(px[:-1], px[1:], strict=True):
-        n = max(1, int(np.ceil(np.hypot(*(b - a)) / step)))
-        out.append(a + (b - a) * (np.arange(1, n + 1)[:, None] / n))
-    return np.vstack(out)
+    seg = px[1:] - px[:-1]
+    if not np.all(np.isfinite(seg)):
+        raise ValueError("a polyline to densify has a point that is not finite")
+    # segment i gets n_i points a_i + (b_i - a_i) k / n_i, k = 1..n_i (all segments at once)
+    n = np.maximum(1, np.ceil(np.hypot(seg[:, 0], seg[:, 1]) / step).astype(np.intp))
+    i = np.repeat(np.arange(len(seg)), n)
+    k = np.arange(1, int(n.sum()) + 1) - np.repeat(np.cumsum(n) - n, n)
+    return np.vstack([px[:1], px[:-1][i] + seg[i] * (k / n[i])[:, None]])
 
 
 LEGEND_FONT = 7.0
