@@ -96,7 +96,11 @@ def evaluate(specs_path: Path, memo=None, stages: dict | None = None, jobs: int 
     stages = stages if stages is not None else {}
     t0 = time.perf_counter()
     reused: dict = {}
-    specs, warnings = load_specs(specs_path, memo.reuse if memo is not None else None, reused, jobs)
+    parsed = memo.parsed_nodes() if memo is not None else None
+    known = set(parsed or ())
+    specs, warnings = load_specs(specs_path, memo.reuse if memo is not None else None, reused, jobs, parsed)
+    if memo is not None:
+        memo.store_parsed(parsed, changed=set(parsed) != known)     # the same names and bytes: kept as is
     stages["load"] = time.perf_counter() - t0
     done_one = None
     if memo is not None:     # each fresh evaluation is kept by the worker that made it

@@ -4,6 +4,7 @@ and publishes what a full build publishes."""
 from __future__ import annotations
 
 import pickle
+from pathlib import Path
 
 import pytest
 
@@ -155,7 +156,7 @@ def test_evaluations_kept_by_worker_processes_are_recalled(library, tmp_path, mo
         library(f"e{k}.yaml", PANEL.format(id=f"e{k}", ref="srgb"))
     first = build(library.dir, out, jobs=2)
     before = files_of(out)
-    assert len(list(_memo(out).glob("*.pickle"))) == 10
+    assert len([p for p in _memo(out).glob("*.pickle") if not p.name.startswith("parsed-")]) == 10
 
     def no_derive(spec):
         raise AssertionError(f"{spec.id} was computed again")
@@ -164,3 +165,33 @@ def test_evaluations_kept_by_worker_processes_are_recalled(library, tmp_path, mo
     second = build(library.dir, out, jobs=2)
     assert (first.recalled, second.recalled) == (0, 10)
     assert files_of(out) == before
+
+
+def test_spec_files_are_parsed_again_only_when_their_bytes_change(library, tmp_path, monkeypatch):
+    """The parses of the spec files are kept beside the memo; a build parses only the files
+    whose name or bytes changed, and publishes what a clean build publishes."""
+    import generator.spec.load as L
+
+    out, ref = tmp_path / "site", tmp_path / "clean"
+    build(library.dir, out)
+    parsed = []
+    real = L.parse_yaml
+    monkeypatch.setattr(L, "parse_yaml", lambda data, shown, *a: parsed.append(shown) or real(data, shown, *a))
+    build(library.dir, out)
+    assert parsed == []
+    (library.dir / "d.yaml").write_text((library.dir / "d.yaml").read_text().replace("title: ", "title: New "))
+    build(library.dir, out)
+    assert [Path(p).name for p in parsed] == ["d.yaml"]
+    build(library.dir, ref, incremental=False)
+    assert files_of(out) == files_of(ref)
+
+
+def test_a_changed_limit_parses_every_file_again(library, tmp_path, monkeypatch):
+    out = tmp_path / "site"
+    build(library.dir, out)
+    monkeypatch.setenv("COLOURSPEC_MAX_BYTES", "60")        # smaller than every spec file: each is refused
+    from generator.spec.problems import InputError
+
+    with pytest.raises(InputError) as e:
+        build(library.dir, out)
+    assert "at most 60 bytes" in e.value.problems[0].message

@@ -86,13 +86,18 @@ def read_files(files: list[Path], problems: Problems, root: Path | None = None) 
     return out
 
 
-def read_sources(documents: list[tuple[str, bytes]], problems: Problems) -> list[SourceSpec]:
+def read_sources(documents: list[tuple[str, bytes]], problems: Problems, parsed: dict | None = None,
+                 digests: dict[str, str] | None = None) -> list[SourceSpec]:
+    """Each document parsed, or taken from ``parsed`` ((shown name, sha256) -> node: what
+    an earlier build parsed, without a problem, from the same bytes under the same name)."""
     out: list[SourceSpec] = []
     seen: dict[str, SourceSpec] = {}
     lim = limits()
     for shown, data in documents:
         path = Path(shown)
-        node = parse_yaml(data, shown, problems, lim)
+        node = parsed.get((shown, digests[shown])) if parsed else None
+        if node is None:
+            node = parse_yaml(data, shown, problems, lim)
         if node is None:
             continue
         if not isinstance(node, Map):
@@ -189,16 +194,16 @@ def apply_inheritance(sources: list[SourceSpec], problems: Problems) -> dict[str
     return out
 
 
-def load_specs(specs: Path, reuse=None, reused: dict | None = None, jobs: int = 1):
+def load_specs(specs: Path, reuse=None, reused: dict | None = None, jobs: int = 1, parsed: dict | None = None):
     """Return (list of Spec, warnings) or raise InputError with every problem found.
-    ``reuse`` and ``reused``: see ``load_documents``."""
+    ``reuse``, ``reused`` and ``parsed``: see ``load_documents``."""
     from ..measure.files import FolderFiles
 
     problems = Problems()
     paths = discover(specs, problems)
     documents = read_files(paths, problems, specs)
     files = FolderFiles(specs if specs.is_dir() else specs.parent, {display_path(p, specs): p for p in paths})
-    return load_documents(documents, problems, files, reuse=reuse, reused=reused, jobs=jobs)
+    return load_documents(documents, problems, files, reuse=reuse, reused=reused, jobs=jobs, parsed=parsed)
 
 
 class _CheckedOnDemand(dict):
@@ -222,7 +227,7 @@ class _CheckedOnDemand(dict):
 
 def load_documents(documents: list[tuple[str, bytes]], problems: Problems | None = None, files=None,
                    folders: dict[str, Path] | None = None, reuse=None, reused: dict | None = None,
-                   jobs: int = 1):
+                   jobs: int = 1, parsed: dict | None = None):
     """load_specs for files already in memory, e.g. read from a git revision: a list of
     (file name as shown to people, bytes). ``files`` finds and reads the measurement files
     the specs name (``measure.files.FolderFiles``); without it, naming one is an error.
@@ -233,7 +238,9 @@ def load_documents(documents: list[tuple[str, bytes]], problems: Problems | None
     previous build made of a spec whose inputs are unchanged; such a spec is neither checked
     nor resolved again, its value goes to ``reused[file]`` and its warnings (``.warnings``
     of the returned object's ``spec``) are reported again. ``jobs`` > 1 resolves the specs
-    (reading their measurement and spectra files) in that many worker processes."""
+    (reading their measurement and spectra files) in that many worker processes.
+    ``parsed`` ((shown name, sha256) -> node) offers the parses of an earlier build; when
+    every document loads without an error, it is left holding this build's parses."""
     if folders is None:
         folders = {shown: p.parent for shown, p in getattr(files, "spec_paths", {}).items()}
     import hashlib
@@ -242,7 +249,7 @@ def load_documents(documents: list[tuple[str, bytes]], problems: Problems | None
 
     problems = problems if problems is not None else Problems()
     digests = {shown: hashlib.sha256(data).hexdigest() for shown, data in documents}
-    sources = read_sources(documents, problems)
+    sources = read_sources(documents, problems, parsed, digests)
     merged = apply_inheritance(sources, problems)
     pending = {}
     if reuse is not None and not problems.errors:
@@ -287,5 +294,8 @@ def load_documents(documents: list[tuple[str, bytes]], problems: Problems | None
             result.append(spec)
     if problems.errors:
         raise InputError(problems.sorted())
+    if parsed is not None:
+        parsed.clear()
+        parsed.update({(src.file, digests[src.file]): src.node for src in sources})
     result.sort(key=lambda s: s.id)
     return result, sorted(set(problems.warnings))
