@@ -98,6 +98,7 @@ class EvaluationMemo:
             return
         closure = {by_id[sid].file: by_id[sid].digest for sid in dependencies(e.spec, by_id)}
         self.used.add(key)
+        source, e.spec.source = e.spec.source, None     # the merged YAML nodes: the loader has them again
         try:
             self.root.mkdir(parents=True, exist_ok=True)
             fd, tmp = tempfile.mkstemp(prefix=".new-", dir=self.root)
@@ -106,6 +107,8 @@ class EvaluationMemo:
             os.replace(tmp, self.root / f"{key}.pickle")
         except (OSError, pickle.PicklingError, TypeError, AttributeError):
             pass  # a memo that cannot be written only costs time
+        finally:
+            e.spec.source = source
 
     def mark_used(self, file: str, digests: dict[str, str]) -> None:
         self.used.add(self._key(file, digests))

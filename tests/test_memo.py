@@ -195,3 +195,24 @@ def test_a_changed_limit_parses_every_file_again(library, tmp_path, monkeypatch)
     with pytest.raises(InputError) as e:
         build(library.dir, out)
     assert "at most 60 bytes" in e.value.problems[0].message
+
+
+def test_a_recalled_spec_gets_its_yaml_nodes_from_this_load(library, tmp_path):
+    """The memo keeps no YAML nodes; a recalled spec's ``source`` is the merged node the
+    loader made this time, with the same keys and positions as a fresh evaluation's."""
+    from generator.spec.yamlnodes import Map
+
+    def shape(node):
+        if isinstance(node, Map):
+            return {k: (node.key_marks[k], shape(v)) for k, v in node.items.items()}
+        return (type(node).__name__, node.mark, getattr(node, "text", None))
+
+    out = tmp_path / "site"
+    first = {e.spec.id: e.spec for e in build(library.dir, out).evaluated}
+    second = build(library.dir, out)
+    assert second.recalled == 4
+    for e in second.evaluated:
+        assert e.spec.source is not None and shape(e.spec.source) == shape(first[e.spec.id].source)
+    for p in _memo(out).glob("*.pickle"):
+        if not p.name.startswith("parsed-"):
+            assert pickle.loads(p.read_bytes())["evaluated"].spec.source is None

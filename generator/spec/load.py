@@ -257,7 +257,7 @@ def load_documents(documents: list[tuple[str, bytes]], problems: Problems | None
             got = reuse(src.file, digests) if src.file in merged else None
             if got is not None:
                 reused[src.file] = got
-                pending[src.id] = merged.pop(src.file)
+                pending[src.id] = got.spec.source = merged.pop(src.file)   # the memo keeps no nodes
                 problems.items.extend(got.spec.warnings)
     values = {}
     for src in sources:
