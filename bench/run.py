@@ -46,7 +46,11 @@ TARGETS = {
 
 def run_measured(args: list[str], cwd: Path) -> dict:
     """Run ``python -m generator.cli ARGS`` in ``cwd``: wall seconds, exit code, standard
-    error, and the child's peak resident memory (MiB) from wait4 where there is one."""
+    error, and the child's peak resident memory (MiB) from wait4 where there is one. The
+    files earlier runs wrote are flushed to disk first (os.sync, not timed), so that a run
+    is not charged for the writeback of the one before it."""
+    if hasattr(os, "sync"):
+        os.sync()
     t0 = time.perf_counter()
     p = subprocess.Popen([sys.executable, "-m", "generator.cli", *args], cwd=cwd,
                          stdout=subprocess.DEVNULL, stderr=subprocess.PIPE, env=_env())
@@ -231,7 +235,8 @@ def print_report(report: dict) -> None:
           f"jobs {b['cold']['jobs']}")
     print("Each build and check is its own process, timed whole, after a warm-up that compiled the modules\n"
           "into a bytecode cache of the children's own and stored the constant tables in the user cache;\n"
-          "a cold build starts, as in a fresh checkout, with no site and no build cache.")
+          "a cold build starts, as in a fresh checkout, with no site and no build cache; the files of\n"
+          "earlier runs are flushed to disk (sync) before each timed run.")
     sp = report["machine_speed_s"]
     print(f"Machine speed (a fixed Python loop, s): {sp['before_builds']:.3f} before the builds, "
           f"{sp['after_builds']:.3f} after (lower is faster)")
