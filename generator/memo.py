@@ -84,12 +84,6 @@ class EvaluationMemo:
         self.hits += 1
         return evaluated
 
-    def store(self, evaluated: list, digests: dict[str, str]) -> None:
-        """Keep every evaluation of this build not taken from the memo."""
-        by_id = {e.spec.id: e.spec for e in evaluated}
-        for e in evaluated:
-            self.store_one(e, by_id, digests)
-
     def store_one(self, e, by_id: dict, digests: dict[str, str]) -> None:
         """Keep one evaluation (``by_id``: every spec of the build, for its closure). A worker
         process may call it; the parent then marks the key used (``mark_used``)."""
@@ -100,15 +94,19 @@ class EvaluationMemo:
         self.used.add(key)
         source, e.spec.source = e.spec.source, None     # the merged YAML nodes: the loader has them again
         try:
+            self._write(key, {"format": FORMAT, "closure": closure, "evaluated": e})
+        finally:
+            e.spec.source = source
+
+    def _write(self, stem: str, entry: dict) -> None:
+        try:
             self.root.mkdir(parents=True, exist_ok=True)
             fd, tmp = tempfile.mkstemp(prefix=".new-", dir=self.root)
             with os.fdopen(fd, "wb") as f:
-                pickle.dump({"format": FORMAT, "closure": closure, "evaluated": e}, f, protocol=5)
-            os.replace(tmp, self.root / f"{key}.pickle")
+                pickle.dump(entry, f, protocol=5)
+            os.replace(tmp, self.root / f"{stem}.pickle")
         except (OSError, pickle.PicklingError, TypeError, AttributeError):
             pass  # a memo that cannot be written only costs time
-        finally:
-            e.spec.source = source
 
     def mark_used(self, file: str, digests: dict[str, str]) -> None:
         self.used.add(self._key(file, digests))
@@ -133,16 +131,8 @@ class EvaluationMemo:
     def store_parsed(self, nodes: dict, changed: bool = True) -> None:
         stem = self._parsed_stem()
         self.used.add(stem)
-        if not changed:
-            return
-        try:
-            self.root.mkdir(parents=True, exist_ok=True)
-            fd, tmp = tempfile.mkstemp(prefix=".new-", dir=self.root)
-            with os.fdopen(fd, "wb") as f:
-                pickle.dump({"format": FORMAT, "nodes": nodes}, f, protocol=5)
-            os.replace(tmp, self.root / f"{stem}.pickle")
-        except (OSError, pickle.PicklingError, TypeError, AttributeError):
-            pass
+        if changed:
+            self._write(stem, {"format": FORMAT, "nodes": nodes})
 
     def prune(self) -> None:
         """Remove every entry this build did not use."""

@@ -78,8 +78,8 @@ class FileRef:
 
 
 class Span:
-    """``length`` bytes of a file from ``offset`` (a piece of the previous site's results.json
-    that has not changed): copied by the kernel (copy_file_range) where it can."""
+    """``length`` bytes of a file from ``offset`` (a cached entry of results.json): copied by
+    the kernel (copy_file_range) where it can."""
 
     __slots__ = ("path", "offset", "length")
 

@@ -438,3 +438,22 @@ def test_an_incremental_build_links_unchanged_pages_to_the_cache_and_matches_a_c
     linked = [p for p in (tmp_path / "site").rglob("index.html") if p.parent.name != "site"
               and p.stat().st_nlink > 1]
     assert linked and all(any(os.path.samefile(p, c) for c in cache.rglob("*") if c.is_file()) for p in linked[:2])
+
+
+@pytest.mark.parametrize("refuse", ["exdev", "missing"])
+def test_spans_are_copied_through_memory_where_the_kernel_will_not(tmp_path, monkeypatch, refuse):
+    import errno
+
+    src = tmp_path / "entry"
+    src.write_bytes(b"0123456789abcdef")
+    if refuse == "missing":
+        monkeypatch.delattr(P.os, "copy_file_range")
+    else:
+        def no(*_a, **_k):
+            raise OSError(errno.EXDEV, "Invalid cross-device link")
+
+        monkeypatch.setattr(P.os, "copy_file_range", no)
+    s = SiteFiles()
+    s.add("results.json", P.Parts([b"[", P.Span(src, 4, 6), b"]", P.Span(src, 0, 2), b"\n"]))
+    out = publish(s, tmp_path / "site")
+    assert (out / "results.json").read_bytes() == b"[456789]01\n"
