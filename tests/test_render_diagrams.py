@@ -323,3 +323,18 @@ def test_densified_polylines_are_the_segment_by_segment_points(closed):
         n = max(1, int(np.ceil(np.hypot(*(b - a)) / 4.0)))
         out.append(a + (b - a) * (np.arange(1, n + 1)[:, None] / n))
     assert np.array_equal(F._densify(px, closed), np.vstack(out))
+
+
+@pytest.mark.parametrize("names", [["S-1 white", "Ω-7 red", " spaced ", ""],
+                                   ["S-1 white", 'quote " in it', "comma, in it", "new\nline", "cr\rhere"]])
+def test_diagram_csv_is_what_csv_writer_writes(names):
+    from generator.render.diagrams import _data_csv
+
+    rows = [{"kind": "unit", "name": n, "at": (0.1 * k + 1e-7, float("nan") if k == 1 else 0.33), "verdict": v}
+            for k, (n, v) in enumerate(zip(names, ["pass", "", "fail", "indeterminate", ""]))]
+    buf = io.StringIO()
+    w = csv.writer(buf, lineterminator="\n")
+    w.writerow(["kind", "name", "u_prime", "v_prime", "verdict"])
+    for r in rows:
+        w.writerow([r["kind"], r["name"], f"{r['at'][0]:.6f}", f"{r['at'][1]:.6f}", r["verdict"]])
+    assert _data_csv("uv", rows) == buf.getvalue()

@@ -206,14 +206,22 @@ def _data_json(which, layer, rows) -> str:
                               encoded={"points": point_texts(rows, a, b)})
 
 
+_CSV_QUOTED = re.compile(r'[,"\r\n]')      # a cell with one of these is quoted by csv.writer
+
+
 def _data_csv(which, rows) -> str:
+    """The points as csv.writer writes them; when no cell needs quoting (serials and channel
+    names rarely do), written by one f-string a row, twice as fast (tested equal)."""
     a, b = _KEYS[which]
-    buf = io.StringIO()
-    w = csv.writer(buf, lineterminator="\n")
-    w.writerow(["kind", "name", a, b, "verdict"])
-    for r in rows:
-        w.writerow([r["kind"], r["name"], f"{r['at'][0]:.6f}", f"{r['at'][1]:.6f}", r["verdict"]])
-    return buf.getvalue()
+    if _CSV_QUOTED.search("".join(r["kind"] + r["name"] + r["verdict"] for r in rows)):
+        buf = io.StringIO()
+        w = csv.writer(buf, lineterminator="\n")
+        w.writerow(["kind", "name", a, b, "verdict"])
+        for r in rows:
+            w.writerow([r["kind"], r["name"], f"{r['at'][0]:.6f}", f"{r['at'][1]:.6f}", r["verdict"]])
+        return buf.getvalue()
+    return f"kind,name,{a},{b},verdict\n" + "".join(
+        [f'{r["kind"]},{r["name"]},{r["at"][0]:.6f},{r["at"][1]:.6f},{r["verdict"]}\n' for r in rows])
 
 
 def _n_units(e) -> int:
