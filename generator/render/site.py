@@ -254,6 +254,7 @@ def render_site(evaluated, results: dict, cache=None, histories=None, *, site_ur
     many worker processes (generator/parallel.py); the bytes are the same."""
     from ..cache import spec_key
     from ..parallel import map_indexed
+    from . import diagrams  # noqa: F401 -- imported once here, before the workers fork, not in each
 
     env = environment()
     site = SiteFiles()
