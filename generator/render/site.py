@@ -257,6 +257,8 @@ def render_site(evaluated, results: dict, cache=None, histories=None, *, site_ur
     from . import diagrams  # noqa: F401 -- imported once here, before the workers fork, not in each
 
     env = environment()
+    for name in ("spec.html", "lot.html"):     # loaded once, before the workers fork
+        env.get_template(name)
     site = SiteFiles()
     n_fig = 0
     by_id = {e.spec.id: e.spec for e in evaluated}
