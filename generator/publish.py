@@ -226,7 +226,7 @@ def _exchange(a: Path, b: Path) -> bool:
     raise OSError(err, os.strerror(err), str(a))
 
 
-def _link_or_copy(src: Path, target: Path) -> None:
+def _link_or_copy(src: Path, target: str) -> None:
     """A hard link to ``src`` (no bytes written), or a copy where links are refused (another
     filesystem, a filesystem without them)."""
     try:
@@ -299,12 +299,14 @@ def _publish(site: SiteFiles, out: Path, real: Path, protect: tuple[Path, ...]) 
         try:
             files = dict(site.files)
             files[MARKER] = MARKER_TEXT
-            made = {tmp}
-            for rel in sorted(files):
-                target = tmp / rel
-                if target.parent not in made:
-                    target.parent.mkdir(parents=True, exist_ok=True)
-                    made.add(target.parent)
+            root = str(tmp)
+            made = {root}
+            for rel in sorted(files):       # plain strings: thousands of files, pathlib costs
+                target = os.path.join(root, rel)
+                folder = os.path.dirname(target)
+                if folder not in made:
+                    os.makedirs(folder, exist_ok=True)
+                    made.add(folder)
                 content = files[rel]
                 if isinstance(content, FileRef):
                     _link_or_copy(content.path, target)

@@ -254,11 +254,8 @@ def render_site(evaluated, results: dict, cache=None, histories=None, *, site_ur
     many worker processes (generator/parallel.py); the bytes are the same."""
     from ..cache import spec_key
     from ..parallel import map_indexed
-    from . import diagrams  # noqa: F401 -- imported once here, before the workers fork, not in each
 
     env = environment()
-    for name in ("spec.html", "lot.html"):     # loaded once, before the workers fork
-        env.get_template(name)
     site = SiteFiles()
     n_fig = 0
     by_id = {e.spec.id: e.spec for e in evaluated}
@@ -272,6 +269,11 @@ def render_site(evaluated, results: dict, cache=None, histories=None, *, site_ur
             if got is not None and INDENTED_ENTRY in got:
                 files_of[e.spec.id] = got
     todo = [e for e in evaluated if e.spec.id not in files_of]
+    if len(todo) > 1 and jobs > 1:      # imported and loaded once here, before the workers fork
+        from . import diagrams  # noqa: F401
+
+        for name in ("spec.html", "lot.html"):
+            env.get_template(name)
 
     def draw(i: int) -> dict:
         """The spec's files; with a cache, stored there by the worker that drew them and
