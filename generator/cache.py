@@ -105,13 +105,14 @@ class Cache:
             manifest = json.loads((entry / "manifest.json").read_text(encoding="utf-8"))
             if manifest.get("format") != FORMAT:
                 return None
-            paths = {name: entry / f"{i}" for i, name in enumerate(manifest["files"])}
+            folder = os.fspath(entry)
+            paths = {name: os.path.join(folder, str(i)) for i, name in enumerate(manifest["files"])}
             if refs:
-                if not all(p.is_file() for p in paths.values()):
+                if not all(os.path.isfile(p) for p in paths.values()):
                     raise OSError("an entry's file is missing")
                 files = {name: FileRef(p) for name, p in paths.items()}
             else:
-                files = {name: p.read_bytes() for name, p in paths.items()}
+                files = {name: Path(p).read_bytes() for name, p in paths.items()}
         except (OSError, ValueError, KeyError, TypeError):
             self.misses += 1
             return None
@@ -136,7 +137,8 @@ class Cache:
             os.replace(tmp, target)
         except OSError:
             return None  # a cache that cannot be written only costs time
-        return {name: FileRef(target / f"{i}") for i, name in enumerate(names)}
+        folder = os.fspath(target)
+        return {name: FileRef(os.path.join(folder, str(i))) for i, name in enumerate(names)}
 
     def prune(self) -> None:
         """Remove every entry this build did not use (and half-written ones)."""

@@ -67,14 +67,15 @@ class FileRef:
 
     __slots__ = ("path",)
 
-    def __init__(self, path: Path) -> None:
-        self.path = Path(path)
+    def __init__(self, path: str | os.PathLike) -> None:
+        self.path = os.fspath(path)         # a plain string: a site has thousands of these
 
     def read(self) -> bytes:
-        return self.path.read_bytes()
+        with open(self.path, "rb") as f:
+            return f.read()
 
     def __repr__(self) -> str:
-        return f"FileRef({str(self.path)!r})"
+        return f"FileRef({self.path!r})"
 
 
 class Span:
@@ -226,13 +227,13 @@ def _exchange(a: Path, b: Path) -> bool:
     raise OSError(err, os.strerror(err), str(a))
 
 
-def _link_or_copy(src: Path, target: str) -> None:
+def _link_or_copy(src: str, target: str) -> None:
     """A hard link to ``src`` (no bytes written), or a copy where links are refused (another
     filesystem, a filesystem without them)."""
     try:
         os.link(src, target)
     except OSError as e:
-        if e.errno == errno.ENOENT and not src.exists():
+        if e.errno == errno.ENOENT and not os.path.exists(src):
             raise
         shutil.copyfile(src, target)
 

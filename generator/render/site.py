@@ -6,6 +6,7 @@ documented in ``render/contexts.py``.
 from __future__ import annotations
 
 import json
+import os
 
 import numpy as np
 
@@ -297,7 +298,7 @@ def render_site(evaluated, results: dict, cache=None, histories=None, *, site_ur
                 site.add(f"{sid}/{name}", files[name])
         entry = files[INDENTED_ENTRY]
         # from the cache: copied by the kernel from the cached file into the site's results.json
-        pieces[sid] = Span(entry.path, 0, entry.path.stat().st_size) if isinstance(entry, FileRef) \
+        pieces[sid] = Span(entry.path, 0, os.path.getsize(entry.path)) if isinstance(entry, FileRef) \
             else memoryview(entry)                                   # not bytes: indented already
     ictx = index_context(evaluated, site_url)
     ictx["reload"] = reload
