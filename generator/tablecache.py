@@ -25,7 +25,12 @@ def cache_root() -> Path | None:
     v = os.environ.get("COLOURSPEC_CACHE")
     if v is not None:
         return None if v.strip().lower() in ("", "off", "0", "no") else Path(v)
-    base = os.environ.get("XDG_CACHE_HOME") or os.path.join(os.path.expanduser("~"), ".cache")
+    base = os.environ.get("XDG_CACHE_HOME")
+    if not base:
+        home = os.path.expanduser("~")
+        if home.startswith("~") or not os.path.isabs(home):     # no home folder: keep nothing
+            return None
+        base = os.path.join(home, ".cache")
     return Path(base) / "colourspec"
 
 

@@ -110,3 +110,13 @@ def test_compiled_templates_are_kept_and_a_damaged_one_is_compiled_again(store):
     for p in kept:
         p.write_bytes(b"j2\x00 damaged")
     assert environment().get_template("base.html").render(**ctx) == first
+
+
+def test_without_a_home_folder_nothing_is_kept(tmp_path, monkeypatch):
+    monkeypatch.delenv("COLOURSPEC_CACHE", raising=False)
+    monkeypatch.delenv("XDG_CACHE_HOME", raising=False)
+    monkeypatch.setattr(tablecache.os.path, "expanduser", lambda p: p)     # as when HOME cannot be found
+    monkeypatch.chdir(tmp_path)
+    assert tablecache.cache_root() is None
+    assert np.array_equal(tablecache.stored_arrays("t", "k", lambda: {"a": np.ones(1)})["a"], [1.0])
+    assert list(tmp_path.iterdir()) == []                                 # no "~" folder in the working folder
