@@ -102,14 +102,21 @@ def test_a_reference_space_volume_read_back_is_the_computed_volume(store):
 def test_compiled_templates_are_kept_and_a_damaged_one_is_compiled_again(store):
     from generator.render.pages import environment
 
+    def fresh():            # a new environment, as in a new process (environment() is one per process)
+        environment.cache_clear()
+        return environment()
+
     ctx = {"root": "", "canonical": "", "reload": False}
-    first = environment().get_template("base.html").render(**ctx)
-    kept = list((store / "templates").iterdir())
-    assert kept
-    assert environment().get_template("base.html").render(**ctx) == first
-    for p in kept:
-        p.write_bytes(b"j2\x00 damaged")
-    assert environment().get_template("base.html").render(**ctx) == first
+    try:
+        first = fresh().get_template("base.html").render(**ctx)
+        kept = list((store / "templates").iterdir())
+        assert kept
+        assert fresh().get_template("base.html").render(**ctx) == first
+        for p in kept:
+            p.write_bytes(b"j2\x00 damaged")
+        assert fresh().get_template("base.html").render(**ctx) == first
+    finally:
+        environment.cache_clear()
 
 
 def test_without_a_home_folder_nothing_is_kept(tmp_path, monkeypatch):

@@ -12,8 +12,8 @@ import io
 import json
 import pickle
 import re
-from math import isfinite
 from collections import OrderedDict
+from math import isfinite
 
 import numpy as np
 

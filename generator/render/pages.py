@@ -31,7 +31,6 @@ def templates_dir() -> Path:
     raise FileNotFoundError("templates folder not found beside the generator package")
 
 
-@lru_cache(maxsize=1)
 class _TemplateCodeCache(jinja2.FileSystemBytecodeCache):
     """Compiled templates kept in the table cache folder (generator/tablecache.py): Jinja
     checks each file's template checksum and Python version; a folder that cannot be used
@@ -58,6 +57,7 @@ def _code_cache():
     return _TemplateCodeCache(str(root / "templates")) if root is not None else None
 
 
+@lru_cache(maxsize=1)
 def environment() -> jinja2.Environment:
     env = jinja2.Environment(
         loader=jinja2.FileSystemLoader(str(templates_dir())),
