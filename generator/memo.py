@@ -21,11 +21,11 @@ from __future__ import annotations
 import hashlib
 import os
 import pickle
-import tempfile
 from pathlib import Path
 
 from .cache import dependencies, tool_digest
 from .spec.load import SPEC_SUFFIXES
+from .tablecache import write_atomically
 
 FORMAT = "colourspec-evaluated/1"
 
@@ -100,11 +100,7 @@ class EvaluationMemo:
 
     def _write(self, stem: str, entry: dict) -> None:
         try:
-            self.root.mkdir(parents=True, exist_ok=True)
-            fd, tmp = tempfile.mkstemp(prefix=".new-", dir=self.root)
-            with os.fdopen(fd, "wb") as f:
-                pickle.dump(entry, f, protocol=5)
-            os.replace(tmp, self.root / f"{stem}.pickle")
+            write_atomically(self.root / f"{stem}.pickle", lambda f: pickle.dump(entry, f, protocol=5))
         except (OSError, pickle.PicklingError, TypeError, AttributeError):
             pass  # a memo that cannot be written only costs time
 

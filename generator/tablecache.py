@@ -56,21 +56,26 @@ def stored_arrays(name: str, key: str, build) -> dict[str, np.ndarray]:
     try:
         with np.load(path, allow_pickle=False) as z:
             return {k: z[k] for k in z.files}
-    except FileNotFoundError:
-        pass
-    except Exception:       # noqa: BLE001 -- a damaged file of any kind is built again
+    except Exception:       # noqa: BLE001 -- missing, or damaged in any way: built again
         pass
     arrays = build()
     try:
-        root.mkdir(parents=True, exist_ok=True)
-        fd, tmp = tempfile.mkstemp(prefix=f".{name}-", suffix=".npz", dir=root)
-        try:
-            with os.fdopen(fd, "wb") as f:
-                np.savez(f, **arrays)
-            os.replace(tmp, path)
-        except BaseException:
-            Path(tmp).unlink(missing_ok=True)
-            raise
+        write_atomically(path, lambda f: np.savez(f, **arrays))
     except OSError:
-        pass
+        pass                # a cache folder that cannot be written only costs the build time
     return arrays
+
+
+def write_atomically(path: Path, write) -> None:
+    """``write(binary file)`` into a temporary file beside ``path``, then renamed over it, so
+    that another process reads the old file or the new one, never half of one; the folder is
+    made if needed, and nothing is left behind when ``write`` fails."""
+    path.parent.mkdir(parents=True, exist_ok=True)
+    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}-", dir=path.parent)
+    try:
+        with os.fdopen(fd, "wb") as f:
+            write(f)
+        os.replace(tmp, path)
+    except BaseException:
+        Path(tmp).unlink(missing_ok=True)
+        raise

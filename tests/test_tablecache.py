@@ -127,3 +127,16 @@ def test_without_a_home_folder_nothing_is_kept(tmp_path, monkeypatch):
     assert tablecache.cache_root() is None
     assert np.array_equal(tablecache.stored_arrays("t", "k", lambda: {"a": np.ones(1)})["a"], [1.0])
     assert list(tmp_path.iterdir()) == []                                 # no "~" folder in the working folder
+
+
+def test_an_atomic_write_that_fails_leaves_the_old_file_and_nothing_else(tmp_path):
+    target = tmp_path / "sub" / "t.bin"
+    tablecache.write_atomically(target, lambda f: f.write(b"old"))
+
+    def fail(f):
+        f.write(b"half")
+        raise ValueError("cannot encode")
+
+    with pytest.raises(ValueError):
+        tablecache.write_atomically(target, fail)
+    assert target.read_bytes() == b"old" and [p.name for p in target.parent.iterdir()] == ["t.bin"]

@@ -20,6 +20,7 @@ from .swatch import swatch_hex
 
 SYMBOLS = {"pass": "✓", "fail": "✗", "indeterminate": "?"}
 MAX_UNIT_ROWS = 1000   # unit rows listed on a spec page, those that do not pass first; results.json has all
+INDENTED_ENTRY = ".entry-in-results"   # a spec's entry as the site's results.json holds it (cached, not published)
 
 
 def n_units(e) -> int:
@@ -229,9 +230,6 @@ def spec_files(e, env, history=None, site_url: str | None = None, reload: bool =
     files["results.json"] = text.encode("utf-8")
     files[INDENTED_ENTRY] = bytes(indented_entry(files["results.json"]))
     return files
-
-
-INDENTED_ENTRY = ".entry-in-results"   # the entry as the site's results.json holds it (cached, not published)
 
 
 def _key_extra(history, site_url: str | None, reload: bool) -> str:
