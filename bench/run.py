@@ -89,9 +89,10 @@ def machine_speed() -> float:
     return time.perf_counter() - t0
 
 
-def warm_up(tmp: Path, info: dict) -> None:
+def warm_up(tmp: Path) -> None:
     """Compile the tool and the modules it imports into the children's bytecode cache, and
-    let the user cache hold the constant tables (generator/tablecache.py), as after a first run."""
+    let the table cache (generator/tablecache.py; the benchmark's own, in the temporary folder)
+    hold the constant tables, as after a first run."""
     subprocess.run([sys.executable, "-m", "compileall", "-q", str(ROOT / "generator")], env=_env(), check=True,
                    stdout=subprocess.DEVNULL)
     subprocess.run([sys.executable, "-c", "import generator.build, generator.render.site, generator.memo, "
@@ -234,7 +235,7 @@ def print_report(report: dict) -> None:
           f"({lib['units']} units), {b['cold']['figures']} diagrams; {report['machine']['cpus']} CPUs, "
           f"jobs {b['cold']['jobs']}")
     print("Each build and check is its own process, timed whole, after a warm-up that compiled the modules\n"
-          "into a bytecode cache of the children's own and stored the constant tables in the user cache;\n"
+          "into a bytecode cache of the children's own and stored the constant tables in a table cache;\n"
           "a cold build starts, as in a fresh checkout, with no site and no build cache; the files of\n"
           "earlier runs are flushed to disk (sync) before each timed run.")
     sp = report["machine_speed_s"]
@@ -301,7 +302,8 @@ def main(argv=None) -> int:
         print(f"wrote {info['specs']} specs and {info['lots']} lot files into a temporary folder", file=sys.stderr)
         global PYCACHE
         PYCACHE = tmp / "pycache"
-        warm_up(tmp, info)
+        os.environ.setdefault("COLOURSPEC_CACHE", str(tmp / "tables"))   # not the user's cache folder
+        warm_up(tmp)
         speed_before = machine_speed()
         builds = measure_builds(tmp, info, a.jobs, a.quick)
         speed_after = machine_speed()
@@ -316,7 +318,7 @@ def main(argv=None) -> int:
               "machine_speed_s": {"before_builds": speed_before, "after_builds": speed_after,
                                   "loop": "sum(range(20_000_000)) in a fresh process"},
               "setup": "children with a warmed bytecode cache (PYTHONPYCACHEPREFIX in the temporary folder) "
-                       "and the constant tables in the user cache",
+                       "and the constant tables in a table cache of the benchmark's own (COLOURSPEC_CACHE)",
               "machine": {"cpus": available_cpus(), "python": platform.python_version(),
                           "platform": platform.platform()},
               "library": info | {"lot_specs": len(info["lot_specs"])}, "builds": builds, "in_process": inproc,
